@@ -1,0 +1,219 @@
+"""Load, validate and index the part-family catalog (``catalog/*.yaml``).
+
+Each YAML file holds one :class:`advisor.parts.Family`. Loading collects every
+problem in every file (not only the first) as located messages:
+``catalog/74hc221.yaml: timing.constants.k[0].value: expected a number, got 'abc'``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from functools import lru_cache
+from pathlib import Path
+
+import yaml
+
+from advisor.errors import DataError, UnknownPartError
+from advisor.parts import RESERVED_SOURCES, Family, Sourced
+from advisor.resources import data_dir, user_dirs
+
+try:  # the C loader is ~10x faster; fall back when libyaml is absent
+    _Loader = yaml.CSafeLoader
+except AttributeError:  # pragma: no cover
+    _Loader = yaml.SafeLoader
+
+#: Constants each timing law needs (the rest of the grammar is in advisor.parts).
+REQUIRED_CONSTANTS: dict[str, tuple[str, ...]] = {
+    "krc": ("k",),
+    "timer-555": ("upper_threshold", "lower_threshold"),
+    "ln-supply": ("a",),
+    "cd4047": ("k_mono", "k_astable"),
+    "cd4541": ("k_osc",),
+}
+
+
+@dataclass(frozen=True)
+class Problem:
+    """One located catalog problem."""
+
+    file: str
+    path: str
+    message: str
+
+    def __str__(self) -> str:
+        return f"{self.file}: {self.path}: {self.message}" if self.path else f"{self.file}: {self.message}"
+
+
+def _loc(loc: tuple) -> str:
+    out = ""
+    for part in loc:
+        if isinstance(part, int):
+            out += f"[{part}]"
+        else:
+            out += f".{part}" if out else str(part)
+    return out
+
+
+def _short(value: object) -> str:
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def parse_family(data: object, file: str) -> tuple[Family | None, list[Problem]]:
+    """Validate one file's data; return the family or the located problems."""
+    from pydantic import ValidationError
+
+    if not isinstance(data, dict):
+        return None, [Problem(file, "", f"expected a mapping of family fields, got {_short(data)}")]
+    try:
+        return Family.model_validate(data), []
+    except ValidationError as exc:
+        problems = []
+        for err in exc.errors():
+            loc = tuple(p for p in err["loc"] if not (isinstance(p, str) and p.startswith("function-")))
+            msg = err["msg"]
+            if err["type"] == "extra_forbidden":
+                msg = "unknown key (not in the catalog grammar; see catalog/README.md)"
+            elif "input" in err and err["type"] != "missing":
+                msg = f"{msg}, got {_short(err['input'])}"
+            problems.append(Problem(file, _loc(loc), msg))
+        return None, problems
+
+
+def family_problems(fam: Family, file: str) -> list[Problem]:
+    """Checks the grammar alone cannot make: sources resolve, law constants present."""
+    problems: list[Problem] = []
+    known = {s.id for s in fam.sources} | set(RESERVED_SOURCES)
+    ids = [s.id for s in fam.sources]
+    for dup in {i for i in ids if ids.count(i) > 1}:
+        problems.append(Problem(file, "sources", f"source id {dup!r} listed twice"))
+
+    def visit(obj: object, path: str) -> None:
+        if isinstance(obj, Sourced) or (hasattr(obj, "source") and isinstance(getattr(obj, "source"), str)):
+            src = getattr(obj, "source")
+            if src not in known:
+                problems.append(Problem(file, f"{path}.source", f"unknown source {src!r}; expected one of {sorted(known)}"))
+        if hasattr(obj, "model_fields") and not isinstance(obj, type):
+            for name in type(obj).model_fields:
+                visit(getattr(obj, name), f"{path}.{name}" if path else name)
+        elif isinstance(obj, list):
+            for i, item in enumerate(obj):
+                visit(item, f"{path}[{i}]")
+        elif isinstance(obj, dict):
+            for k, item in obj.items():
+                visit(item, f"{path}.{k}")
+
+    for name in ("supply", "timing", "components", "behaviour", "interface", "packages"):
+        visit(getattr(fam, name), name)
+    for need in REQUIRED_CONSTANTS[fam.timing.law]:
+        if not fam.timing.constants.get(need):
+            problems.append(Problem(file, f"timing.constants.{need}", f"law {fam.timing.law!r} needs constant {need!r}"))
+    for i, pkg in enumerate(fam.packages):
+        for p in pkg.pins:
+            if p.channel is not None and not 1 <= p.channel <= fam.channels:
+                problems.append(Problem(file, f"packages[{i}].pins", f"pin {p.pin} channel {p.channel} outside 1..{fam.channels}"))
+    return problems
+
+
+def count_memory(fam: Family) -> int:
+    """How many numbers in the family are still from memory (unverified)."""
+    n = 0
+
+    def visit(obj: object) -> None:
+        nonlocal n
+        if isinstance(obj, Sourced):
+            n += obj.source == "memory"
+        if hasattr(obj, "model_fields") and not isinstance(obj, type):
+            for name in type(obj).model_fields:
+                visit(getattr(obj, name))
+        elif isinstance(obj, (list, tuple)):
+            for item in obj:
+                visit(item)
+        elif isinstance(obj, dict):
+            for item in obj.values():
+                visit(item)
+
+    visit(fam)
+    return n
+
+
+@dataclass
+class Catalog:
+    """All families, indexed by upper-case id; ``problems`` lists what failed to load."""
+
+    families: dict[str, Family] = field(default_factory=dict)
+    files: dict[str, str] = field(default_factory=dict)  # id -> file it came from
+    problems: list[Problem] = field(default_factory=list)
+
+    def ids(self) -> list[str]:
+        return sorted(self.families, key=_natural)
+
+    def get(self, family_id: str) -> Family:
+        """The family with exactly this id (case-insensitive), else UnknownPartError."""
+        fam = self.families.get(family_id.strip().upper())
+        if fam is None:
+            raise UnknownPartError(f"no family {family_id!r} in the catalog", got=family_id)
+        return fam
+
+    def resolve(self, query: str) -> Family:
+        """A family id or any recognised part number; raises with suggestions otherwise."""
+        fam = self.families.get(query.strip().upper())
+        if fam is not None:
+            return fam
+        from advisor.partnumber import resolve_family
+
+        return resolve_family(self, query)
+
+
+def _natural(text: str) -> tuple:
+    import re
+
+    return tuple(int(t) if t.isdigit() else t for t in re.split(r"(\d+)", text))
+
+
+def load_dirs(dirs: list[Path]) -> Catalog:
+    """Load every ``*.yaml`` in ``dirs``; later folders override earlier ones by id."""
+    cat = Catalog()
+    for d in dirs:
+        for path in sorted(Path(d).glob("*.yaml")):
+            if path.name.startswith("_"):
+                continue
+            label = f"catalog/{path.name}" if d == dirs[0] else str(path)
+            try:
+                data = yaml.load(path.read_text(encoding="utf-8"), Loader=_Loader)
+            except yaml.YAMLError as exc:
+                mark = getattr(exc, "problem_mark", None)
+                where = f"line {mark.line + 1}" if mark else ""
+                cat.problems.append(Problem(label, where, f"not valid YAML: {getattr(exc, 'problem', exc)}"))
+                continue
+            except (OSError, UnicodeDecodeError) as exc:
+                cat.problems.append(Problem(label, "", f"cannot read: {exc}"))
+                continue
+            fam, problems = parse_family(data, label)
+            cat.problems.extend(problems)
+            if fam is None:
+                continue
+            extra = family_problems(fam, label)
+            cat.problems.extend(extra)
+            key = fam.id.upper()
+            if key in cat.families and cat.files[key].startswith("catalog/") == label.startswith("catalog/"):
+                cat.problems.append(Problem(label, "id", f"family id {fam.id!r} also defined in {cat.files[key]}"))
+            cat.families[key] = fam
+            cat.files[key] = label
+    return cat
+
+
+@lru_cache(maxsize=4)
+def load_catalog(extra: tuple[str, ...] = ()) -> Catalog:
+    """The shipped catalog plus user folders and ``extra`` (``--catalog DIR``) folders."""
+    dirs = [data_dir("catalog"), *user_dirs("catalog"), *(Path(e) for e in extra)]
+    return load_dirs(dirs)
+
+
+def require_clean(cat: Catalog) -> Catalog:
+    """Raise DataError naming the first problem (the rest are in ``cat.problems``)."""
+    if cat.problems:
+        first = cat.problems[0]
+        more = f" (and {len(cat.problems) - 1} more; run 'retime catalog check')" if len(cat.problems) > 1 else ""
+        raise DataError(str(first) + more)
+    return cat

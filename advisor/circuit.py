@@ -1,0 +1,108 @@
+"""One validated description of a timer or one-shot circuit, shared by every front end.
+
+The CLI flags, the TUI form and BOM rows all build a :class:`Circuit`; the engine
+reads only this. Quantities are SI base units (Ω, F, s, Hz, V); tolerances are
+fractions (0.05 = 5 %).
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict, dataclass, field, replace
+from typing import Literal
+
+from advisor.errors import InputError
+
+Mode = Literal["mono", "astable"]
+Measured = Literal["width", "high", "low", "period"]
+TargetKind = Literal["width", "period", "freq"]
+
+#: Tolerances assumed when the user gives none, shown in every result that uses them.
+#: 5 % resistors and 10 % capacitors: common practice for E24 parts and film/C0G capacitors.
+DEFAULT_R_TOL = 0.05
+DEFAULT_C_TOL = 0.10
+
+
+@dataclass(frozen=True)
+class Trigger:
+    period: float | None = None  # s
+    edge: Literal["rising", "falling"] | None = None
+    high: float | None = None  # V, the driving signal's high level
+
+
+@dataclass(frozen=True)
+class Measurement:
+    quantity: Measured
+    value: float  # s
+
+
+@dataclass(frozen=True)
+class Target:
+    kind: TargetKind
+    value: float  # s for width/period, Hz for freq
+    duty: float | None = None  # astable high fraction, 0..1
+    range: tuple[float, float] | None = None  # adjustment range (s), from --range
+
+
+@dataclass(frozen=True)
+class Circuit:
+    """A timing circuit: part, mode, supply, network, tolerances, trigger, measurement, target.
+
+    ``r`` is the main timing resistor (Rext, or RA for a 555 monostable); ``ra``/``rb``
+    are the 555 astable pair. ``pot`` is a variable resistor in series with the main
+    timing resistor (RB in an astable), ``pot_setting`` the fraction of its travel in
+    circuit (0 = shorted).
+    """
+
+    part: str
+    vcc: float | None = None
+    mode: Mode | None = None
+    r: float | None = None
+    ra: float | None = None
+    rb: float | None = None
+    c: float | None = None
+    pot: float | None = None
+    pot_setting: float | None = None
+    r_tol: float | None = None
+    c_tol: float | None = None
+    trigger: Trigger = field(default_factory=Trigger)
+    measured: Measurement | None = None
+    target: Target | None = None
+
+    def __post_init__(self) -> None:
+        if self.pot_setting is not None and not 0.0 <= self.pot_setting <= 1.0:
+            raise InputError(
+                f"pot setting {self.pot_setting!r} is outside 0..1", got=self.pot_setting,
+                expected="a fraction of the travel from 0 (shorted) to 1 (full value)",
+            )
+        if self.pot_setting is not None and self.pot is None:
+            raise InputError("--pot-setting needs --pot (the variable resistor's value)")
+        for name in ("r_tol", "c_tol"):
+            v = getattr(self, name)
+            if v is not None and not 0.0 <= v < 1.0:
+                raise InputError(f"{name.replace('_', ' ')} {v!r} is outside 0..1", got=v, expected="a fraction such as 0.05 or 5%")
+        if self.mode == "astable" and self.r is not None and self.ra is None:
+            object.__setattr__(self, "ra", self.r)
+            object.__setattr__(self, "r", None)
+
+    @property
+    def r_tolerance(self) -> float:
+        return DEFAULT_R_TOL if self.r_tol is None else self.r_tol
+
+    @property
+    def c_tolerance(self) -> float:
+        return DEFAULT_C_TOL if self.c_tol is None else self.c_tol
+
+    @property
+    def tolerances_defaulted(self) -> dict[str, bool]:
+        return {"r_tol": self.r_tol is None, "c_tol": self.c_tol is None}
+
+    def with_(self, **changes: object) -> "Circuit":
+        """A copy with some fields changed (validated again)."""
+        return replace(self, **changes)
+
+    def to_json(self) -> dict:
+        d = asdict(self)
+        d["r_tol"] = self.r_tolerance
+        d["c_tol"] = self.c_tolerance
+        d["tolerances_defaulted"] = self.tolerances_defaulted
+        return d

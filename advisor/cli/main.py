@@ -1,0 +1,88 @@
+"""Entry point of the ``retime`` command.
+
+Each command lives in its own module ``advisor/cli/cmd_<name>.py`` exposing
+``NAME``, ``HELP``, ``register(parser)`` and ``run(args) -> int``; they are found
+by name, so adding a command touches no shared file. Command modules keep heavy
+imports (pandas, textual, schemdraw) inside ``run`` so start-up stays fast.
+
+Every :class:`advisor.errors.RetimeError` becomes one line on stderr and its
+exit status (2 for bad input, 1 for data problems); no traceback reaches a user
+unless ``RETIME_DEBUG=1``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import os
+import pkgutil
+import sys
+
+from advisor import __version__
+from advisor.errors import RetimeError
+
+#: Order in ``retime --help``; commands not listed here follow alphabetically.
+ORDER = ["demo", "find", "show", "catalog", "check", "design", "swap", "alternates", "bom", "measure", "rules", "ui"]
+
+
+def _command_modules() -> list:
+    import advisor.cli as pkg
+
+    names = [m.name[4:] for m in pkgutil.iter_modules(pkg.__path__) if m.name.startswith("cmd_")]
+    names.sort(key=lambda n: (ORDER.index(n) if n in ORDER else len(ORDER), n))
+    return [importlib.import_module(f"advisor.cli.cmd_{n}") for n in names]
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # one line, exit 2, no usage dump
+        sys.stderr.write(f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
+        raise SystemExit(2)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    common = argparse.ArgumentParser(add_help=False)
+    common.add_argument("--json", action="store_true", help="print one JSON object (SI units) on stdout")
+    common.add_argument("--catalog", action="append", default=[], metavar="DIR",
+                        help="extra catalog folder that adds or overrides families (repeatable)")
+    parser = _Parser(
+        prog="retime",
+        description="Replace a 555-class timer or a one-shot: look parts up, recompute R/C, "
+        "check datasheet rules, list the rework.",
+    )
+    parser.add_argument("--version", action="version", version=f"retime {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    for mod in _command_modules():
+        p = sub.add_parser(mod.NAME, help=mod.HELP, description=getattr(mod, "DESCRIPTION", mod.HELP), parents=[common])
+        mod.register(p)
+        p.set_defaults(_run=mod.run)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "command", None):
+        parser.print_help()
+        return 0
+    try:
+        return int(args._run(args) or 0)
+    except RetimeError as exc:
+        sys.stderr.write(f"retime: error: {exc.render()}\n")
+        return exc.exit_code
+    except KeyboardInterrupt:
+        sys.stderr.write("retime: interrupted\n")
+        return 130
+    except BrokenPipeError:
+        return 0
+    except Exception as exc:  # a bug: one line for users, the traceback on request
+        if os.environ.get("RETIME_DEBUG"):
+            raise
+        sys.stderr.write(
+            f"retime: internal error: {type(exc).__name__}: {exc} "
+            "(please report it; set RETIME_DEBUG=1 for details)\n"
+        )
+        return 3
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())

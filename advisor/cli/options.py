@@ -1,0 +1,98 @@
+"""Circuit options shared by check, design, swap, alternates and the BOM.
+
+Flags are kept as text by argparse and parsed here, so a bad value becomes one
+:class:`ValueParseError` line (exit 2) naming the flag and quoting the input.
+"""
+
+from __future__ import annotations
+
+import argparse
+
+from advisor.circuit import Circuit, Measurement, Target, Trigger
+from advisor.errors import ValueParseError
+from advisor.values import parse_quantity, parse_range
+
+_FLAGS: list[tuple[str, str, str]] = [
+    # flag, quantity kind, help
+    ("--vcc", "voltage", "supply voltage (V), e.g. 5 or 15V"),
+    ("--r", "resistance", "main timing resistor (Rext, or RA of a 555), e.g. 10k, 4k7"),
+    ("--ra", "resistance", "555 astable RA"),
+    ("--rb", "resistance", "555 astable RB"),
+    ("--pot", "resistance", "variable resistor in series with the main timing resistor (RB in an astable)"),
+    ("--pot-setting", "fraction", "fraction 0..1 of the variable resistor's travel in circuit"),
+    ("--c", "capacitance", "timing capacitor, e.g. 10n, 2n2, 0.01u"),
+    ("--r-tol", "fraction", "resistor tolerance, e.g. 1%% or 0.01 (default 5%%)"),
+    ("--c-tol", "fraction", "capacitor tolerance (default 10%%)"),
+    ("--trigger-period", "time", "period of the trigger signal, e.g. 64us"),
+    ("--trigger-high", "voltage", "high level of the driving signal (V)"),
+    ("--measured-width", "time", "measured output pulse width of the real circuit"),
+    ("--measured-high", "time", "measured high time (astable)"),
+    ("--measured-low", "time", "measured low time (astable)"),
+    ("--measured-period", "time", "measured period (astable)"),
+    ("--target-width", "time", "wanted pulse width"),
+    ("--target-period", "time", "wanted period"),
+    ("--target-freq", "frequency", "wanted frequency"),
+]
+
+
+def add_circuit_options(p: argparse.ArgumentParser, *, targets: bool = True) -> None:
+    g = p.add_argument_group("circuit")
+    for flag, _kind, help_ in _FLAGS:
+        if not targets and flag.startswith("--target"):
+            continue
+        g.add_argument(flag, metavar="VALUE", help=help_)
+    g.add_argument("--mode", choices=["mono", "astable"], help="555-class mode (default: mono, astable when RB is given)")
+    g.add_argument("--trigger-edge", choices=["rising", "falling"], help="active edge of the trigger signal")
+
+
+def _get(args: argparse.Namespace, flag: str, kind: str) -> float | None:
+    raw = getattr(args, flag.lstrip("-").replace("-", "_"), None)
+    if raw is None:
+        return None
+    try:
+        return parse_quantity(raw, kind, zero_ok=True if flag in ("--pot-setting", "--r-tol", "--c-tol") else None)
+    except ValueParseError as exc:
+        raise ValueParseError(f"{flag}: {exc.message}", got=raw, expected=exc.expected) from None
+
+
+def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
+    """Build the validated circuit from parsed flags (raises on bad values)."""
+    v = {flag: _get(args, flag, kind) for flag, kind, _ in _FLAGS if hasattr(args, flag.lstrip("-").replace("-", "_"))}
+    mode = getattr(args, "mode", None)
+    if mode is None and (v.get("--rb") is not None or v.get("--ra") is not None):
+        mode = "astable"
+    measured = None
+    for q in ("width", "high", "low", "period"):
+        if v.get(f"--measured-{q}") is not None:
+            if measured is not None:
+                raise ValueParseError("give one measured quantity at a time (--measured-width, -high, -low or -period)")
+            measured = Measurement(q, v[f"--measured-{q}"])
+    target = None
+    duty = _get(args, "--duty", "fraction") if hasattr(args, "duty") else None
+    rng = None
+    if getattr(args, "range", None):
+        rng = parse_range(args.range, "time")
+    for q, kind in (("width", "width"), ("period", "period"), ("freq", "freq")):
+        val = v.get(f"--target-{q}")
+        if val is not None:
+            if target is not None:
+                raise ValueParseError("give one target at a time (--target-width, --target-period or --target-freq)")
+            target = Target(kind, val, duty=duty, range=rng)
+    if target is None and rng is not None:
+        target = Target("width" if mode != "astable" else "period", (rng[0] * rng[1]) ** 0.5, duty=duty, range=rng)
+    return Circuit(
+        part=part,
+        vcc=v.get("--vcc"),
+        mode=mode,
+        r=v.get("--r"),
+        ra=v.get("--ra"),
+        rb=v.get("--rb"),
+        c=v.get("--c"),
+        pot=v.get("--pot"),
+        pot_setting=v.get("--pot-setting"),
+        r_tol=v.get("--r-tol"),
+        c_tol=v.get("--c-tol"),
+        trigger=Trigger(v.get("--trigger-period"), getattr(args, "trigger_edge", None), v.get("--trigger-high")),
+        measured=measured,
+        target=target,
+    )

@@ -1,0 +1,275 @@
+"""The catalog grammar: pydantic models for one part family (one YAML file).
+
+Models are frozen and refuse unknown keys, so a typo in a catalog file is an
+error with its location instead of a silently ignored value. Summarised for
+contributors at the top of ``catalog/README.md``.
+
+Every number a family records is a :class:`Sourced` value (or a list of them when
+makers publish different figures): ``{value: 0.7, source: nxp-74hc4538}``. The
+``source`` names an entry of the file's ``sources`` list, or one of the reserved
+ids ``memory`` (recalled, unverified) and ``common-practice`` (a fact of the
+trade with no published source).
+"""
+
+from __future__ import annotations
+
+from typing import Literal
+
+from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+
+Function = Literal["timer-555", "monostable", "monostable-astable", "programmable-timer"]
+Technology = Literal[
+    "bipolar", "cmos-555", "ttl", "ls", "als", "hc", "hct", "ac", "ahc", "ahct", "vhc", "lv", "lvc",
+    "cmos-4000",
+]
+SourceKind = Literal["datasheet", "standard", "textbook", "app-note", "measurement", "forum", "memory"]
+Retrigger = Literal["yes", "no", "selectable"]
+Edge = Literal["rising", "falling", "level-low", "level-high"]
+Level = Literal["low", "high"]
+Law = Literal["timer-555", "krc", "ln-supply", "cd4047", "cd4541"]
+
+#: Normalised pin functions. Pin maps compare these, never the makers' labels,
+#: because labels differ between makers for the same pin (NXP vs TI 74HC4538).
+PinFunction = Literal[
+    # supplies
+    "VCC", "GND", "NC",
+    # 555-class
+    "TRIG", "THRES", "DIS", "OUT", "RESET", "CONT",
+    # one-shots: edge-trigger inputs (falling = A / -TR style, rising = B / +TR style)
+    "TRIG_FALL", "TRIG_RISE", "CLEAR", "Q", "QN",
+    # timing network pins
+    "CEXT", "RCEXT", "RINT", "REXT",
+    # 4047 extras
+    "ASTABLE", "ASTABLE_N", "RETRIGGER", "OSC_OUT", "RC_COMMON",
+    # 4541 extras
+    "RS", "RTC", "CTC", "AUTO_RESET", "MASTER_RESET", "PROG_A", "PROG_B", "MODE", "QSEL",
+]
+
+RESERVED_SOURCES = ("memory", "common-practice")
+
+
+class _Frozen(BaseModel):
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+
+class Source(_Frozen):
+    """A document the family's numbers come from."""
+
+    id: str
+    title: str
+    document: str | None = None  # maker's document id and revision, e.g. "SCLS145F"
+    kind: SourceKind
+    note: str | None = None
+
+
+class Sourced(_Frozen):
+    """One published number with its source and the conditions it holds under.
+
+    Conditions are optional ranges: supply (``vcc_min``/``vcc_max``, V) and timing
+    capacitance (``c_min``/``c_max``, F). ``maker`` tells which maker's sheet
+    published it when makers disagree.
+    """
+
+    value: float
+    source: str
+    vcc_min: float | None = None
+    vcc_max: float | None = None
+    c_min: float | None = None
+    c_max: float | None = None
+    maker: str | None = None
+    note: str | None = None
+
+    def applies(self, vcc: float | None = None, c: float | None = None) -> bool:
+        """True when the value's conditions admit this supply and capacitance."""
+        if vcc is not None:
+            if self.vcc_min is not None and vcc < self.vcc_min - 1e-9:
+                return False
+            if self.vcc_max is not None and vcc > self.vcc_max + 1e-9:
+                return False
+        if c is not None:
+            if self.c_min is not None and c < self.c_min * (1 - 1e-9):
+                return False
+            if self.c_max is not None and c > self.c_max * (1 + 1e-9):
+                return False
+        return True
+
+    @property
+    def unverified(self) -> bool:
+        return self.source == "memory"
+
+
+SourcedList = list[Sourced]
+
+
+class Range(_Frozen):
+    min: float
+    max: float
+    source: str
+    note: str | None = None
+
+    @model_validator(mode="after")
+    def _ordered(self) -> "Range":
+        if self.min > self.max:
+            raise ValueError(f"min {self.min} is above max {self.max}")
+        return self
+
+
+class Supply(_Frozen):
+    """Supply voltage (V): the recommended operating range and the absolute maximum."""
+
+    recommended: Range
+    absolute_max: Sourced
+
+
+class Timing(_Frozen):
+    """The timing law and its published constants.
+
+    ``law`` selects the equation (see ``advisor.timing.laws``); ``constants`` maps
+    each constant's name to the published values. Required names per law:
+
+    - ``krc``: ``k`` (t = K·(R + r_offset)·C); optional ``r_offset`` (Ω).
+    - ``timer-555``: ``upper_threshold`` and ``lower_threshold`` (fractions of the
+      supply), optional ``mono_k`` (t = k·R·C, nominally ln 3 ≈ 1.1), ``astable_k``
+      (f = k/((RA+2RB)·C), nominally 1.44), ``r_discharge`` (Ω, discharge on-resistance).
+    - ``ln-supply``: ``a`` (t = a·R·C·ln(VDD − VSS), the 4528 law).
+    - ``cd4047``: ``k_mono`` (t = k·R·C), ``k_astable`` (period at Q = k·R·C).
+    - ``cd4541``: ``k_osc`` (oscillator period = k·Rt·Ct).
+    """
+
+    law: Law
+    constants: dict[str, SourcedList]
+    r_internal: Sourced | None = None  # on-chip timing resistor (74121, 74122)
+    c_linear_min: Sourced | None = None  # C below which the law stops holding
+    f_max: Sourced | None = None  # frequency above which the formula stops holding (Hz)
+    width_min: Sourced | None = None
+    width_max: Sourced | None = None
+    spread: Sourced | None = None  # part-to-part spread of the constant, fraction
+    note: str | None = None
+
+
+class Components(_Frozen):
+    """Limits on the external timing network (Ω, F). Lists hold per-supply values."""
+
+    r_min: SourcedList = Field(default_factory=list)
+    r_max: SourcedList = Field(default_factory=list)
+    c_min: SourcedList = Field(default_factory=list)
+    c_max: SourcedList = Field(default_factory=list)
+    electrolytic: str | None = None  # how to fit a polarised Cext on this part
+    note: str | None = None
+
+
+class TriggerInput(_Frozen):
+    """One trigger input: its name, active edge or level, Schmitt or not, and
+    the level the *other* inputs must sit at to enable it."""
+
+    name: str
+    function: PinFunction
+    edge: Edge
+    schmitt: bool
+    enable: dict[str, Level] = Field(default_factory=dict)  # other input function -> level
+    note: str | None = None
+
+
+class Clear(_Frozen):
+    name: str
+    active: Level
+    ends_pulse: bool
+    triggers_on_release: bool
+    source: str
+    note: str | None = None
+
+
+class Behaviour(_Frozen):
+    retrigger: Retrigger
+    retrigger_source: str
+    triggers: list[TriggerInput] = Field(default_factory=list)
+    clear: Clear | None = None
+    power_up: str | None = None
+    retrigger_min: Sourced | None = None  # shortest retrigger spacing, s
+    recovery: Sourced | None = None  # time after a pulse before the next trigger, s
+    note: str | None = None
+
+
+class Interface(_Frozen):
+    """Input levels and output drive.
+
+    ``inputs``: ``ttl`` (VIH 2.0 V, VIL 0.8 V) or ``cmos`` (fractions of VCC).
+    ``vih``/``vil`` are either absolute (V) with ``at_vcc`` or ``fraction`` of VCC.
+    """
+
+    inputs: Literal["ttl", "cmos"]
+    vih: Sourced | None = None
+    vih_fraction: Sourced | None = None
+    vil: Sourced | None = None
+    vil_fraction: Sourced | None = None
+    input_clamp_to_vcc: bool = True
+    output_source_ma: Sourced | None = None
+    output_sink_ma: Sourced | None = None
+    note: str | None = None
+
+
+class Pin(_Frozen):
+    pin: int
+    name: str  # the maker's label, kept for display
+    function: PinFunction
+    channel: int | None = None  # 1-based section number; None for shared pins
+
+
+class Package(_Frozen):
+    name: str  # e.g. DIP-16
+    pins: list[Pin]
+    source: str
+    same_as: str | None = None  # another package name with the same pinout (kept short)
+
+    @field_validator("pins")
+    @classmethod
+    def _unique_pins(cls, pins: list[Pin]) -> list[Pin]:
+        seen: set[int] = set()
+        for p in pins:
+            if p.pin in seen:
+                raise ValueError(f"pin {p.pin} listed twice")
+            seen.add(p.pin)
+        return pins
+
+    def by_function(self, channel: int | None = None) -> dict[str, list[int]]:
+        """Pin numbers by normalised function for one channel (shared pins included)."""
+        out: dict[str, list[int]] = {}
+        for p in self.pins:
+            if channel is None or p.channel in (None, channel):
+                out.setdefault(p.function, []).append(p.pin)
+        return out
+
+
+class Family(_Frozen):
+    """One part family: the trade's generic number and everything the tool needs."""
+
+    id: str
+    title: str
+    function: Function
+    technology: Technology
+    channels: int = 1
+    status: Literal["active", "obsolete", "nrnd", "unknown"] = "unknown"
+    part_numbers: list[str]  # recognised base forms; maker prefixes/suffixes are generic
+    supply: Supply
+    timing: Timing
+    components: Components
+    behaviour: Behaviour
+    interface: Interface
+    packages: list[Package]
+    sources: list[Source]
+    see_also: list[str] = Field(default_factory=list)
+    cautions: list[str] = Field(default_factory=list)
+    note: str | None = None
+
+    def source(self, source_id: str) -> Source | None:
+        for s in self.sources:
+            if s.id == source_id:
+                return s
+        return None
+
+    def constant(self, name: str, vcc: float | None = None, c: float | None = None) -> list[Sourced]:
+        """Published values of a timing constant that apply at this supply and C."""
+        return [v for v in self.timing.constants.get(name, []) if v.applies(vcc, c)]
+
+    def default_package(self) -> Package:
+        return self.packages[0]

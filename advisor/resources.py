@@ -1,0 +1,33 @@
+"""Where shipped data lives: ``advisor/data/{catalog,rules,demo}`` via importlib.resources.
+
+In the repository those are symlinks to the top-level ``catalog/`` and ``rules/``
+folders, so editable and normal installs read the same files through one code path.
+"""
+
+from __future__ import annotations
+
+import os
+from importlib import resources
+from pathlib import Path
+
+
+def data_dir(name: str) -> Path:
+    """Path of a shipped data folder (``catalog``, ``rules`` or ``demo``)."""
+    root = resources.files("advisor") / "data" / name
+    return Path(str(root))
+
+
+def user_dirs(name: str) -> list[Path]:
+    """Extra folders that add or override shipped entries.
+
+    ``RETIME_CATALOG`` / ``RETIME_RULES`` (os.pathsep-separated) and
+    ``~/.config/retime/<name>`` when it exists.
+    """
+    out: list[Path] = []
+    env = os.environ.get(f"RETIME_{name.upper()}")
+    if env:
+        out.extend(Path(p) for p in env.split(os.pathsep) if p)
+    home = Path(os.environ.get("XDG_CONFIG_HOME", Path.home() / ".config")) / "retime" / name
+    if home.is_dir():
+        out.append(home)
+    return out

@@ -1,0 +1,1 @@
+"""Test helpers: external oracles (ngspice, kicad-symbols) and fixtures."""
