@@ -1,0 +1,221 @@
+"""Judge every line of a BOM: recognise the part, and for timers and one-shots give the
+best alternates with their class and key findings.
+
+Each distinct part number is recognised once (BOMs repeat lines), and each distinct
+(family, supply, R, C) is reviewed once, so a 10 000-line BOM costs what its distinct
+lines cost.
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+from dataclasses import dataclass, field
+from typing import Callable
+
+from advisor.bom.table import Columns, Table, locate_columns
+from advisor.circuit import Circuit
+from advisor.errors import RetimeError
+from advisor.values import format_code, parse_quantity
+
+#: Row statuses (in the order the summary lists them).
+STATUSES = ("reviewed", "check-match", "out-of-scope", "no-part-number", "unreadable")
+#: Columns the review adds after the input's own columns.
+ADDED_COLUMNS = (
+    "retime_status", "retime_family", "retime_score", "retime_best_alternate", "retime_best_class",
+    "retime_alternates", "retime_findings", "retime_reason",
+)
+#: Recognition scores at or above this are taken as the family; between the two, a
+#: human should confirm; below, the line is out of scope. Scores are 0..100.
+SURE_SCORE = 90.0
+MAYBE_SCORE = 80.0
+
+
+@dataclass
+class RowReview:
+    index: int  # 0-based index into Table.rows
+    status: str
+    family: str = ""
+    score: float | None = None
+    best_alternate: str = ""
+    best_class: str = ""
+    alternates: list[dict] = field(default_factory=list)
+    findings: list[dict] = field(default_factory=list)
+    reason: str = ""
+
+    def added_cells(self) -> list[str]:
+        alts = "; ".join(f"{a['family']} ({a['class']})" for a in self.alternates)
+        finds = "; ".join(f"{f['severity']}: {f['rule']}" for f in self.findings)
+        return [
+            self.status, self.family, "" if self.score is None else f"{self.score:.0f}",
+            self.best_alternate, self.best_class, alts, finds, self.reason,
+        ]
+
+    def to_json(self) -> dict:
+        return {
+            "status": self.status, "family": self.family or None, "score": self.score,
+            "best_alternate": self.best_alternate or None, "best_class": self.best_class or None,
+            "alternates": self.alternates, "findings": self.findings, "reason": self.reason or None,
+        }
+
+
+@dataclass
+class BomResult:
+    table: Table
+    columns: Columns
+    reviews: list[RowReview]  # one per data row, in order
+    new_vcc: float | None = None
+
+    @property
+    def summary(self) -> dict[str, int]:
+        counts = Counter(r.status for r in self.reviews)
+        return {s: counts.get(s, 0) for s in STATUSES}
+
+    def to_json(self) -> dict:
+        header = self.table.header
+        keys = _unique_keys(header + [""] * (self.table.width - len(header)))
+        rows = []
+        for rev in self.reviews:
+            cells = self.table.rows[rev.index]
+            rows.append({
+                "line": rev.index + 1,
+                "cells": {k: (cells[i] if i < len(cells) else "") for i, k in enumerate(keys)},
+                **rev.to_json(),
+            })
+        return {
+            "file": str(self.table.path),
+            "part_column": header[self.columns.part] if self.columns.part < len(header) else self.columns.part + 1,
+            "new_vcc": self.new_vcc,
+            "columns": keys + list(ADDED_COLUMNS),
+            "preamble": self.table.rows[: self.table.header_row],
+            "rows": rows,
+            "summary": self.summary,
+        }
+
+
+def _unique_keys(header: list[str]) -> list[str]:
+    """Header names made unique for JSON keys ('Part', 'Part (2)'); blanks become 'column N'."""
+    out: list[str] = []
+    seen: Counter = Counter()
+    for i, h in enumerate(header):
+        name = h.strip() or f"column {i + 1}"
+        seen[name] += 1
+        out.append(name if seen[name] == 1 else f"{name} ({seen[name]})")
+    return out
+
+
+def _cell(row: list[str], idx: int | None) -> str:
+    if idx is None or idx >= len(row):
+        return ""
+    return row[idx].strip()
+
+
+def review_bom(
+    table: Table,
+    catalog,
+    *,
+    part_column: str | None = None,
+    new_vcc: float | None = None,
+    vcc: float | None = None,
+    limit: int = 3,
+    progress: Callable[[int, int], None] | None = None,
+) -> BomResult:
+    """Review every data row of ``table``; never drops a row."""
+    from advisor.partnumber import recognise_many
+
+    cols = locate_columns(table, part_column)
+    data_idx = [i for i in range(table.header_row + 1, len(table.rows))]
+    queries = {_cell(table.rows[i], cols.part) for i in data_idx} - {""}
+    matches = recognise_many(catalog, sorted(queries))
+    reviews: list[RowReview] = []
+    cache: dict[tuple, RowReview] = {}
+    total = len(data_idx)
+    for n, i in enumerate(data_idx, 1):
+        row = table.rows[i]
+        reviews.append(_review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit))
+        if progress is not None and (n % 200 == 0 or n == total):
+            progress(n, total)
+    return BomResult(table, cols, reviews, new_vcc)
+
+
+def _review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit) -> RowReview:
+    if not any(c.strip() for c in row):
+        return RowReview(i, "no-part-number", reason="empty row")
+    if cols.part >= len(row):
+        return RowReview(i, "unreadable", reason=f"row has {len(row)} cells; the part column is number {cols.part + 1}")
+    query = _cell(row, cols.part)
+    if not query:
+        return RowReview(i, "no-part-number", reason="part-number cell is empty")
+    found = matches.get(query) or []
+    if not found or found[0].score < MAYBE_SCORE:
+        return RowReview(i, "out-of-scope", reason="not a timer or one-shot in the catalog")
+    best = found[0]
+    try:
+        r = _opt(row, cols.r, "resistance")
+        rb = _opt(row, cols.rb, "resistance")
+        c = _opt(row, cols.c, "capacitance")
+        row_vcc = _opt(row, cols.vcc, "voltage")
+    except RetimeError as exc:
+        return RowReview(i, "unreadable", family=best.family, score=best.score, reason=exc.message)
+    fam = catalog.get(best.family)
+    supply = row_vcc or vcc or _default_vcc(fam)
+    key = (best.family, supply, r, rb, c, new_vcc)
+    if key not in cache:
+        cache[key] = _alternates_for(fam, supply, r, rb, c, new_vcc, catalog, limit)
+    base = cache[key]
+    status = "reviewed" if best.score >= SURE_SCORE else "check-match"
+    reason = base.reason
+    if status == "check-match":
+        reason = f"closest family {best.family} at score {best.score:.0f}: confirm the part number" + (f"; {reason}" if reason else "")
+    return RowReview(
+        i, status, family=best.family, score=round(best.score, 1), best_alternate=base.best_alternate,
+        best_class=base.best_class, alternates=base.alternates, findings=base.findings, reason=reason,
+    )
+
+
+def _opt(row: list[str], idx: int | None, kind: str) -> float | None:
+    text = _cell(row, idx)
+    return parse_quantity(text, kind) if text else None
+
+
+def _default_vcc(fam) -> float:
+    """5 V when the family runs there (the common case in BOMs without a supply column)."""
+    rec = fam.supply.recommended
+    return 5.0 if rec.min <= 5.0 <= rec.max else rec.min
+
+
+def _alternates_for(fam, vcc, r, rb, c, new_vcc, catalog, limit) -> RowReview:
+    from advisor.substitute import alternates
+
+    mode = "astable" if rb is not None else None
+    circuit = Circuit(part=fam.id, vcc=vcc, mode=mode, r=r if mode is None else None,
+                      ra=r if mode == "astable" else None, rb=rb, c=c)
+    try:
+        res = alternates(catalog, fam.id, circuit, new_vcc=new_vcc, limit=limit).to_json()
+    except RetimeError as exc:
+        return RowReview(-1, "reviewed", reason=exc.message)
+    cands = res.get("candidates", [])[:limit]
+    alts = [{"family": a["family"], "class": a["class"]} for a in cands]
+    findings = []
+    for a in cands[:1]:
+        for f in a.get("findings", []):
+            if f["severity"] in ("danger", "warning"):
+                findings.append({"rule": f["rule"], "severity": f["severity"], "message": f["message"]})
+    reason = ""
+    if not cands:
+        reason = "no alternate in the catalog can do this job" + (f" at {new_vcc:g} V" if new_vcc else "")
+    elif r is None and c is None:
+        reason = "no R/C columns: classes judged on pins, behaviour and supply only"
+    return RowReview(
+        -1, "reviewed", best_alternate=alts[0]["family"] if alts else "", best_class=alts[0]["class"] if alts else "",
+        alternates=alts, findings=findings[:3], reason=reason,
+    )
+
+
+def describe_values(r: float | None, c: float | None) -> str:
+    """Short value text for summaries: '10k / 10n'."""
+    parts = []
+    if r is not None:
+        parts.append(format_code(r))
+    if c is not None:
+        parts.append(format_code(c, "capacitance"))
+    return " / ".join(parts)

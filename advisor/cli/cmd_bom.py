@@ -1,0 +1,92 @@
+"""`retime bom FILE [-o OUT] [--new-vcc V]`: review a bill of materials."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+NAME = "bom"
+HELP = "review every timer and one-shot line of a CSV/XLSX bill of materials"
+DESCRIPTION = (
+    "Read a CSV or XLSX BOM, recognise each part number once, and give every timer and one-shot "
+    "line its family, match score, status, best alternates with their class and key findings. "
+    "Every input row comes back in order; the input is never overwritten."
+)
+
+
+def register(p: argparse.ArgumentParser) -> None:
+    p.add_argument("file", metavar="FILE", help="BOM as .csv/.tsv/.txt or .xlsx")
+    p.add_argument("-o", "--output", metavar="OUT", help="write the reviewed BOM (.csv, .xlsx, .json or .md)")
+    p.add_argument("--part-column", metavar="NAME", help="header (or 1-based number) of the part-number column")
+    p.add_argument("--new-vcc", metavar="V", help="the supply the board moves to (V)")
+    p.add_argument("--vcc", metavar="V", help="supply for lines without a supply column (default 5 V where the part runs there)")
+    p.add_argument("--limit", type=int, default=3, help="alternates kept per line (default 3)")
+    try:
+        from advisor.cli.options import add_report_option
+
+        add_report_option(p)
+    except ImportError:
+        pass
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.bom.progress import Progress
+    from advisor.bom.review import review_bom
+    from advisor.bom.table import read_table
+    from advisor.bom.write import write_bom
+    from advisor.cli.output import catalog_for, emit_json
+    from advisor.values import parse_quantity
+
+    new_vcc = parse_quantity(args.new_vcc, "voltage") if args.new_vcc else None
+    vcc = parse_quantity(args.vcc, "voltage") if args.vcc else None
+    catalog = catalog_for(args)
+    table = read_table(args.file)
+    bar = Progress("reviewing")
+    try:
+        res = review_bom(table, catalog, part_column=args.part_column, new_vcc=new_vcc, vcc=vcc,
+                         limit=max(1, args.limit), progress=bar)
+    finally:
+        bar.close()
+    if args.output:
+        write_bom(res, args.output)
+    try:
+        from advisor.cli.options import write_report_if_asked
+
+        write_report_if_asked(args, res, "bom")
+    except ImportError:
+        pass
+    if args.json:
+        emit_json(res.to_json())
+    else:
+        _print_text(res, args.output)
+    return 0
+
+
+def _print_text(res, output: str | None) -> None:
+    t = res.table
+    head = t.header
+    part_name = head[res.columns.part] if res.columns.part < len(head) else f"column {res.columns.part + 1}"
+    out = sys.stdout
+    out.write(f"{t.path.name}: {len(res.reviews)} lines, part numbers from {part_name!r}")
+    if res.columns.duplicate_part_headers:
+        out.write(f" (the header appears {1 + len(res.columns.duplicate_part_headers)} times; the first is used)")
+    out.write("\n")
+    shown = 0
+    for rev in res.reviews:
+        if rev.status not in ("reviewed", "check-match", "unreadable"):
+            continue
+        if shown >= 40:
+            continue
+        shown += 1
+        row = t.rows[rev.index]
+        part = row[res.columns.part] if res.columns.part < len(row) else ""
+        alts = ", ".join(f"{a['family']} [{a['class']}]" for a in rev.alternates) or "—"
+        out.write(f"  line {rev.index + 1:>5}  {part:<18} {rev.status:<12} {rev.family:<10} → {alts}\n")
+        if rev.reason:
+            out.write(f"{'':>14}{rev.reason}\n")
+    hidden = sum(1 for r in res.reviews if r.status in ("reviewed", "check-match", "unreadable")) - shown
+    if hidden > 0:
+        out.write(f"  … {hidden} more timer/one-shot lines (write them all with -o OUT)\n")
+    out.write("summary: " + ", ".join(f"{k} {v}" for k, v in res.summary.items()) + "\n")
+    if output:
+        out.write(f"written: {output}\n")

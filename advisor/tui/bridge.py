@@ -1,0 +1,239 @@
+"""What the workbench asks of the engine, in one place, with every failure turned into text.
+
+The screens never compute timing: they hand the form's raw text to :func:`evaluate`,
+which parses it (quoting bad input back), builds one :class:`advisor.circuit.Circuit`,
+calls the engine (``advisor.timing`` + ``advisor.rules`` for a check,
+``advisor.substitute`` for a swap) and returns an :class:`Outcome` holding the
+engine's JSON. Nothing here raises: a :class:`RetimeError` becomes ``problem`` (one
+line), a bug inside the engine becomes a one-line internal-error note.
+
+No Textual import here, so this module is tested and timed without a terminal.
+"""
+
+from __future__ import annotations
+
+import importlib
+import importlib.util
+from dataclasses import dataclass, field
+
+from advisor.circuit import Circuit, Trigger
+from advisor.errors import RetimeError, ValueParseError
+from advisor.findings import SEVERITY_ORDER
+from advisor.values import parse_quantity
+
+#: Engine modules the workbench uses; the screens say which are not there yet.
+ENGINE_MODULES = ("advisor.partnumber", "advisor.timing", "advisor.rules", "advisor.substitute", "advisor.bom")
+
+
+def module_present(name: str) -> bool:
+    try:
+        return importlib.util.find_spec(name) is not None
+    except (ImportError, ValueError):
+        return False
+
+
+def missing_modules() -> list[str]:
+    return [m for m in ENGINE_MODULES if not module_present(m)]
+
+
+@dataclass(frozen=True)
+class FieldSpec:
+    """One input of the check/swap form: key, label, quantity kind, placeholder."""
+
+    key: str
+    label: str
+    kind: str  # a kind of advisor.values.KINDS, or "part"
+    placeholder: str
+    tip: str
+
+
+FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("old", "Part", "part", "e.g. 74HC221, NE555P", "the part on the board (any part number)"),
+    FieldSpec("new", "Replace with", "part", "blank = check only", "the part to fit instead; blank checks the first part"),
+    FieldSpec("vcc", "Supply", "voltage", "e.g. 5", "supply voltage of the circuit (V)"),
+    FieldSpec("new_vcc", "New supply", "voltage", "blank = same", "supply after the change (V), for a swap"),
+    FieldSpec("r", "R (Rext/RA)", "resistance", "e.g. 10k, 4k7", "main timing resistor"),
+    FieldSpec("rb", "RB (astable)", "resistance", "555 astable only", "second resistor of a 555 astable"),
+    FieldSpec("c", "C (Cext)", "capacitance", "e.g. 10n, 2n2", "timing capacitor"),
+    FieldSpec("pot", "Pot", "resistance", "e.g. 10k", "variable resistor in series with R (RB in an astable)"),
+    FieldSpec("pot_setting", "Pot setting", "fraction", "0..1 or 50%", "share of the pot's travel in circuit"),
+    FieldSpec("trigger_period", "Trigger period", "time", "e.g. 64us", "time between trigger edges"),
+)
+FIELD_BY_KEY = {f.key: f for f in FIELDS}
+
+
+def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]]:
+    """Parse every filled field; return (values, errors by field key).
+
+    Part fields stay text; quantities become SI floats. Each error quotes the
+    input and says what is expected (from :func:`advisor.values.parse_quantity`).
+    """
+    values: dict[str, object] = {}
+    errors: dict[str, str] = {}
+    for spec in FIELDS:
+        text = (raw.get(spec.key) or "").strip()
+        if not text:
+            values[spec.key] = None
+            continue
+        if spec.kind == "part":
+            values[spec.key] = text
+            continue
+        try:
+            zero_ok = True if spec.kind == "fraction" else None
+            values[spec.key] = parse_quantity(text, spec.kind, zero_ok=zero_ok)
+        except ValueParseError as exc:
+            errors[spec.key] = exc.render()
+            values[spec.key] = None
+    sett = values.get("pot_setting")
+    if sett is not None and not 0.0 <= float(sett) <= 1.0:  # type: ignore[arg-type]
+        errors["pot_setting"] = f"pot setting {raw.get('pot_setting', '').strip()!r} is outside 0..1; expected a fraction such as 0.5 or 50%"
+        values["pot_setting"] = None
+    return values, errors
+
+
+@dataclass
+class Outcome:
+    """Everything a screen shows after one recomputation."""
+
+    kind: str  # "empty" | "check" | "swap" | "error"
+    data: dict = field(default_factory=dict)  # the engine's to_json()
+    findings: list[dict] = field(default_factory=list)  # most severe first
+    field_errors: dict[str, str] = field(default_factory=dict)
+    problem: str | None = None  # one line from the engine or the catalog
+    hint: str | None = None
+    part: str | None = None  # family id checked (old part)
+    new_part: str | None = None
+
+    @property
+    def timing_json(self) -> dict:
+        """The result whose timing the picture draws (the new part's in a swap)."""
+        if self.kind == "swap":
+            new = self.data.get("new") or {}
+            out = dict(new) if isinstance(new, dict) else {}
+            for key in ("timing", "trigger", "mode"):
+                if self.data.get(key) is not None:
+                    out.setdefault(key, self.data[key])
+            return out
+        return self.data
+
+
+def resolve(catalog, query: str):
+    """Family for a part number; falls back to exact ids until recognition lands."""
+    try:
+        return catalog.resolve(query)
+    except ImportError:  # advisor.partnumber not there yet: exact family ids only
+        return catalog.get(query)
+
+
+def sorted_findings(items: list) -> list[dict]:
+    """Finding objects or dicts to dicts, duplicates dropped, most severe first."""
+    seen: set[tuple] = set()
+    out: list[dict] = []
+    for f in items:
+        d = f.to_json() if hasattr(f, "to_json") else dict(f)
+        key = (d.get("rule"), d.get("part"), d.get("message"))
+        if key in seen:
+            continue
+        seen.add(key)
+        out.append(d)
+    return sorted(out, key=lambda d: SEVERITY_ORDER.get(str(d.get("severity")), 9))
+
+
+def build_circuit(part: str, v: dict[str, object]) -> Circuit:
+    """The form's values as one validated circuit (mode astable when RB is given)."""
+    mode = "astable" if v.get("rb") is not None else None
+    return Circuit(
+        part=part,
+        vcc=v.get("vcc"),  # type: ignore[arg-type]
+        mode=mode,  # type: ignore[arg-type]
+        r=v.get("r"),  # type: ignore[arg-type]
+        rb=v.get("rb"),  # type: ignore[arg-type]
+        c=v.get("c"),  # type: ignore[arg-type]
+        pot=v.get("pot"),  # type: ignore[arg-type]
+        pot_setting=v.get("pot_setting"),  # type: ignore[arg-type]
+        trigger=Trigger(period=v.get("trigger_period")),  # type: ignore[arg-type]
+    )
+
+
+def evaluate(catalog, raw: dict[str, str]) -> Outcome:
+    """Parse the form and run the check or the swap; never raises."""
+    values, errors = parse_fields(raw)
+    old = values.get("old")
+    if not old:
+        return Outcome("empty", field_errors=errors, hint="Type the part on the board (F2 looks parts up).")
+    try:
+        return _evaluate(catalog, values, errors)
+    except RetimeError as exc:
+        return Outcome("error", field_errors=errors, problem=exc.render())
+    except Exception as exc:  # an engine bug must not reach the screen as a traceback
+        return Outcome("error", field_errors=errors, problem=f"internal error: {type(exc).__name__}: {exc} (please report it)")
+
+
+def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Outcome:
+    old_fam = resolve(catalog, str(values["old"]))
+    new_query = values.get("new")
+    if errors:
+        # Keep showing which part was recognised, but compute nothing from a half-read form.
+        return Outcome("error", field_errors=errors, part=old_fam.id, problem="fix the marked field to recompute")
+    if values.get("pot_setting") is not None and values.get("pot") is None:
+        return Outcome("error", part=old_fam.id, field_errors={"pot_setting": "a pot setting needs the pot's value; fill in Pot"})
+    if new_query:
+        new_fam = resolve(catalog, str(new_query))
+        if not module_present("advisor.substitute"):
+            return Outcome("error", part=old_fam.id, new_part=new_fam.id, problem="swap engine (advisor.substitute) is not installed yet")
+        subst = importlib.import_module("advisor.substitute")
+        circuit = build_circuit(old_fam.id, values)
+        result = subst.swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"))
+        data = result.to_json()
+        return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
+    if not module_present("advisor.timing"):
+        return Outcome("error", part=old_fam.id, problem="timing engine (advisor.timing) is not installed yet")
+    timing = importlib.import_module("advisor.timing")
+    circuit = build_circuit(old_fam.id, values)
+    result = timing.analyse(old_fam, circuit)
+    data = result.to_json()
+    found = list(data.get("findings") or [])
+    if module_present("advisor.rules"):
+        rules = importlib.import_module("advisor.rules")
+        found.extend(rules.check_findings(old_fam, circuit, data))
+    return Outcome("check", data=data, findings=sorted_findings(found), part=old_fam.id)
+
+
+@dataclass(frozen=True)
+class Hit:
+    family: str
+    score: float
+    how: str
+    title: str
+
+
+def find_parts(catalog, query: str, limit: int = 12) -> tuple[list[Hit], str | None]:
+    """Ranked families for a typed query, and a one-line note when there are none.
+
+    Uses ``advisor.partnumber.recognise`` (maker prefixes, suffixes, typos). Until it
+    is installed only family ids that contain the typed text are offered.
+    """
+    q = query.strip()
+    if not q:
+        hits = [Hit(fid, 0.0, "list", catalog.families[fid].title) for fid in catalog.ids()]
+        return hits, None
+    try:
+        if module_present("advisor.partnumber"):
+            pn = importlib.import_module("advisor.partnumber")
+            matches = pn.recognise(catalog, q, limit=limit)
+            hits = []
+            for m in matches:
+                fam = catalog.families.get(str(m.family).upper())
+                hits.append(Hit(str(m.family), float(m.score), str(m.how), fam.title if fam else ""))
+        else:
+            up = q.upper()
+            hits = [Hit(fid, 100.0 if fid == up else 50.0, "exact" if fid == up else "contains",
+                        catalog.families[fid].title) for fid in catalog.ids() if up in fid]
+            hits.sort(key=lambda h: -h.score)
+    except RetimeError as exc:
+        return [], exc.render()
+    except Exception as exc:  # recognition bug: say so in one line
+        return [], f"internal error in part recognition: {type(exc).__name__}: {exc}"
+    if not hits:
+        return [], f"no family matches {q!r}"
+    return hits[:limit], None
