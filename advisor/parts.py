@@ -213,6 +213,7 @@ class Pin(_Frozen):
     name: str  # the maker's label, kept for display
     function: PinFunction
     channel: int | None = None  # 1-based section number; None for shared pins
+    note: str | None = None
 
 
 class Package(_Frozen):
@@ -220,6 +221,7 @@ class Package(_Frozen):
     pins: list[Pin]
     source: str
     same_as: str | None = None  # another package name with the same pinout (kept short)
+    note: str | None = None  # e.g. which pins the source confirms and which are from memory
 
     @field_validator("pins")
     @classmethod

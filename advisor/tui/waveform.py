@@ -1,0 +1,186 @@
+"""The timing picture: trigger and output drawn in the terminal from a computed result.
+
+The engine decides what happens (pulse width, ``trigger.divide_by``,
+``trigger.stays_high``); this module only lays the edges out on a character grid.
+A one-shot fires on trigger 0, n, 2n, … when the result says it divides by n;
+when it says the output stays high, the output rises at the first trigger and
+never falls inside the picture. An astable is drawn from its high and low times.
+
+Each signal takes two text rows: ``┌──┐`` on top and ``┘  └`` below mark the
+edges, so the picture reads in any terminal font without colour.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from rich.text import Text
+
+from advisor.tui.palette import STYLE
+from advisor.values import format_eng
+
+LABEL_W = 9  # width of the row labels on the left
+
+
+@dataclass(frozen=True)
+class Layout:
+    """What to draw: time span, intervals where each signal is high, trigger marks."""
+
+    span: float  # s shown across the picture
+    trigger_high: list[tuple[float, float]]
+    output_high: list[tuple[float, float]]
+    marks: list[tuple[float, str]]  # (time, "fire" | "skip" | "restart")
+    caption: str
+    has_trigger: bool
+
+
+def _num(d: dict | None, *keys: str) -> float | None:
+    cur: object = d
+    for k in keys:
+        if not isinstance(cur, dict):
+            return None
+        cur = cur.get(k)
+    if isinstance(cur, (int, float)) and not isinstance(cur, bool) and cur > 0:
+        return float(cur)
+    return None
+
+
+def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
+    """Edges to draw for a result's ``timing``/``trigger`` JSON, or None when it has none."""
+    if not isinstance(result, dict):
+        return None
+    nominal = (result.get("timing") or {}).get("nominal") if isinstance(result.get("timing"), dict) else None
+    width = _num(nominal, "width")
+    high, low = _num(nominal, "high"), _num(nominal, "low")
+    if width is None and high is not None and low is not None:
+        period = high + low
+        n = 4
+        span = n * period
+        out = [(k * period, k * period + high) for k in range(n)]
+        duty = high / period
+        return Layout(span, [], out, [], f"free-running: high {format_eng(high, 's')}, low {format_eng(low, 's')}, duty {duty:.0%}", False)
+    if width is None:
+        return None
+    trig = result.get("trigger") if isinstance(result.get("trigger"), dict) else None
+    t_period = _num(trig, "period")
+    if t_period is None:
+        # One trigger, the pulse, and some quiet time after it.
+        start = 0.15 * 2.5 * width
+        span = 2.5 * width
+        return Layout(span, [(start, start + min(0.03 * span, width / 4))], [(start, start + width)],
+                      [(start, "fire")], f"one trigger: pulse {format_eng(width, 's')}", True)
+    stays = bool(trig.get("stays_high")) if trig else False
+    divide = trig.get("divide_by") if trig else None
+    divide = int(divide) if isinstance(divide, (int, float)) and not isinstance(divide, bool) and divide >= 1 else 1
+    shown = divide if divide <= (max_triggers - 2) // 2 else 1  # too coarse to draw: draw one in n
+    n = max(4, min(max_triggers, 2 * shown + 2))
+    lead = 0.3 * t_period
+    span = lead + n * t_period
+    blip = min(0.25 * t_period, 0.02 * span + 1e-30)
+    trig_high = [(lead + k * t_period, lead + k * t_period + blip) for k in range(n)]
+    marks: list[tuple[float, str]] = []
+    out: list[tuple[float, float]] = []
+    if stays:
+        out = [(lead, span * 1.01)]
+        marks = [(lead + k * t_period, "fire" if k == 0 else "restart") for k in range(n)]
+        caption = f"output stays high: each trigger restarts the {format_eng(width, 's')} pulse before it ends"
+    else:
+        for k in range(n):
+            t0 = lead + k * t_period
+            if k % shown == 0:
+                out.append((t0, t0 + width))
+                marks.append((t0, "fire"))
+            else:
+                marks.append((t0, "skip"))
+        if divide == 1:
+            caption = f"every trigger fires: pulse {format_eng(width, 's')} in a {format_eng(t_period, 's')} period"
+        else:
+            caption = f"only every {divide}th trigger fires: the {format_eng(width, 's')} pulse outlasts the {format_eng(t_period, 's')} period"
+            if shown != divide:
+                caption += " (too many to draw: ignored triggers not all shown)"
+    return Layout(span, trig_high, out, marks, caption, True)
+
+
+def _levels(intervals: list[tuple[float, float]], span: float, cols: int) -> list[bool]:
+    """High/low per column; a pulse narrower than a column still shows as one column."""
+    dt = span / cols
+    lv = [False] * cols
+    for a, b in intervals:
+        if b <= 0 or a >= span:
+            continue
+        i0 = max(0, int(a / dt))
+        i1 = min(cols - 1, int(min(b, span * (1 - 1e-12)) / dt))
+        if b >= span:
+            i1 = cols - 1
+        for i in range(i0, i1 + 1):
+            lo, hi = i * dt, (i + 1) * dt
+            cover = min(hi, b) - max(lo, a)
+            if cover >= dt / 2 or i0 == i1:
+                lv[i] = True
+    return lv
+
+
+def _rows(levels: list[bool]) -> tuple[str, str]:
+    top, bottom = [], []
+    prev = levels[0] if levels else False
+    for i, lv in enumerate(levels):
+        if i and lv and not prev:
+            top.append("┌"); bottom.append("┘")
+        elif i and prev and not lv:
+            top.append("┐"); bottom.append("└")
+        elif lv:
+            top.append("─"); bottom.append(" ")
+        else:
+            top.append(" "); bottom.append("─")
+        prev = lv
+    return "".join(top), "".join(bottom)
+
+
+def draw(result: dict | None, width: int = 80) -> Text:
+    """The picture as Rich text, ``width`` characters wide (labels included)."""
+    lay = lay_out(result)
+    if lay is None:
+        return Text("No timing to draw yet: fill in the part, R and C.", style=STYLE["dim"])
+    cols = max(20, width - LABEL_W - 1)
+    text = Text()
+    if lay.has_trigger:
+        top, bot = _rows(_levels(lay.trigger_high, lay.span, cols))
+        text.append(f"{'trigger':<{LABEL_W}}", style=STYLE["dim"]); text.append(top + "\n", style=STYLE["trigger"])
+        text.append(" " * LABEL_W); text.append(bot + "\n", style=STYLE["trigger"])
+        row = [" "] * cols
+        styles = [""] * cols
+        for t, kind in lay.marks:
+            i = min(cols - 1, int(t / lay.span * cols))
+            row[i] = {"fire": "▲", "skip": "×", "restart": "↻"}[kind]
+            styles[i] = {"fire": STYLE["good"], "skip": STYLE["skip"], "restart": STYLE["warning"]}[kind]
+        text.append(" " * LABEL_W)
+        for ch, st in zip(row, styles):
+            text.append(ch, style=st or None)
+        text.append("\n")
+    top, bot = _rows(_levels(lay.output_high, lay.span, cols))
+    text.append(f"{'output':<{LABEL_W}}", style=STYLE["dim"]); text.append(top + "\n", style=STYLE["output"])
+    text.append(" " * LABEL_W); text.append(bot + "\n", style=STYLE["output"])
+    end = format_eng(lay.span, "s", 3)
+    axis = "0" + " " * max(1, cols - 1 - len(end)) + end
+    text.append(" " * LABEL_W); text.append(axis + "\n", style=STYLE["dim"])
+    text.append(lay.caption, style=STYLE["key"])
+    if lay.has_trigger and any(k != "fire" for _, k in lay.marks):
+        text.append("\n▲ fires  × ignored (pulse still running)  ↻ restarts the pulse", style=STYLE["dim"])
+    return text
+
+
+def make_widget():
+    """The Textual widget class (built on demand so this module imports without Textual)."""
+    from textual.reactive import reactive
+    from textual.widget import Widget
+
+    class TimingPicture(Widget):
+        """Draws :func:`draw` for the result it is given; redraws on resize."""
+
+        DEFAULT_CSS = "TimingPicture { height: auto; }"
+        result: reactive[dict | None] = reactive(None, layout=True)
+
+        def render(self) -> Text:
+            return draw(self.result, max(30, self.content_size.width or 80))
+
+    return TimingPicture
