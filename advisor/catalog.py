@@ -112,17 +112,95 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
         for p in pkg.pins:
             if p.channel is not None and not 1 <= p.channel <= fam.channels:
                 problems.append(Problem(file, f"packages[{i}].pins", f"pin {p.pin} channel {p.channel} outside 1..{fam.channels}"))
+        problems.extend(package_problems(fam, i, file))
+    problems.extend(behaviour_problems(fam, file))
+    forms = [p.strip().upper() for p in fam.part_numbers]
+    for dup in sorted({f for f in forms if forms.count(f) > 1}):
+        problems.append(Problem(file, "part_numbers", f"{dup!r} listed twice"))
+    return problems
+
+
+#: Functions that belong to one section of a multi-channel part.
+_CHANNEL_FUNCTIONS = {"VCC", "GND", "NC"}
+
+
+def package_problems(fam: Family, index: int, file: str) -> list[Problem]:
+    """A pinout lists every pin 1..N once (N from a ``-N`` name), and every
+    channel of a multi-channel part carries the same set of functions."""
+    import re
+
+    pkg = fam.packages[index]
+    where = f"packages[{index}]"
+    problems: list[Problem] = []
+    numbers = sorted(p.pin for p in pkg.pins)
+    m = re.search(r"-(\d+)$", pkg.name)
+    count = int(m.group(1)) if m else (numbers[-1] if numbers else 0)
+    missing = sorted(set(range(1, count + 1)) - set(numbers))
+    extra = [n for n in numbers if not 1 <= n <= count]
+    if missing:
+        problems.append(Problem(file, f"{where}.pins", f"pins {missing} missing; expected every pin 1..{count} of {pkg.name} (use function NC for unconnected pins)"))
+    if extra:
+        problems.append(Problem(file, f"{where}.pins", f"pins {extra} outside 1..{count} of {pkg.name}"))
+    for need in ("VCC", "GND"):
+        if not any(p.function == need for p in pkg.pins):
+            problems.append(Problem(file, f"{where}.pins", f"no {need} pin; expected one"))
+    per_channel: dict[int, list[str]] = {}
+    for p in pkg.pins:
+        if p.function in _CHANNEL_FUNCTIONS:
+            continue
+        if p.channel is None and fam.channels > 1:
+            problems.append(Problem(file, f"{where}.pins", f"pin {p.pin} ({p.function}) has no channel; expected 1..{fam.channels}"))
+            continue
+        per_channel.setdefault(p.channel or 1, []).append(p.function)
+    if fam.channels > 1:
+        ref = sorted(per_channel.get(1, []))
+        for ch in range(2, fam.channels + 1):
+            got = sorted(per_channel.get(ch, []))
+            if got != ref:
+                problems.append(Problem(file, f"{where}.pins", f"channel {ch} functions {got} differ from channel 1 {ref}"))
+    return problems
+
+
+def behaviour_problems(fam: Family, file: str) -> list[Problem]:
+    """Trigger and clear inputs name functions that the pinouts carry."""
+    problems: list[Problem] = []
+    if not fam.packages:
+        return [Problem(file, "packages", "no package; expected at least one pinout")]
+    functions = {p.function for p in fam.packages[0].pins}
+    for i, trig in enumerate(fam.behaviour.triggers):
+        if trig.function not in functions:
+            problems.append(Problem(file, f"behaviour.triggers[{i}].function", f"{trig.function!r} is on no pin of {fam.packages[0].name}"))
+        for other in trig.enable:
+            if other not in functions:
+                problems.append(Problem(file, f"behaviour.triggers[{i}].enable.{other}", f"{other!r} is on no pin of {fam.packages[0].name}"))
+    return problems
+
+
+def catalog_problems(cat: "Catalog") -> list[Problem]:
+    """Checks across files: a listed part number belongs to one family only."""
+    owners: dict[str, list[str]] = {}
+    for key, fam in cat.families.items():
+        for form in {fam.id.upper(), *(p.strip().upper() for p in fam.part_numbers)}:
+            owners.setdefault(form, []).append(key)
+    problems = []
+    for form, keys in sorted(owners.items()):
+        if len(keys) > 1:
+            files = ", ".join(cat.files[k] for k in sorted(keys))
+            problems.append(Problem(cat.files[sorted(keys)[-1]], "part_numbers", f"{form!r} is listed by {len(keys)} families ({files}); expected one"))
     return problems
 
 
 def count_memory(fam: Family) -> int:
-    """How many numbers in the family are still from memory (unverified)."""
+    """How many sourced items (numbers, ranges, pinouts, behaviour facts) are
+    still from memory (unverified)."""
     n = 0
 
     def visit(obj: object) -> None:
         nonlocal n
-        if isinstance(obj, Sourced):
+        if isinstance(getattr(obj, "source", None), str) and hasattr(obj, "model_fields"):
             n += obj.source == "memory"
+        if hasattr(obj, "retrigger_source"):
+            n += obj.retrigger_source == "memory"
         if hasattr(obj, "model_fields") and not isinstance(obj, type):
             for name in type(obj).model_fields:
                 visit(getattr(obj, name))
@@ -200,6 +278,7 @@ def load_dirs(dirs: list[Path]) -> Catalog:
                 cat.problems.append(Problem(label, "id", f"family id {fam.id!r} also defined in {cat.files[key]}"))
             cat.families[key] = fam
             cat.files[key] = label
+    cat.problems.extend(catalog_problems(cat))
     return cat
 
 

@@ -133,6 +133,7 @@ class Unmatched:
     channel: int | None
     what: str  # what to do with its net
     blocking: bool  # True: no equivalent input exists, the circuit must change
+    old_level: str | None = None  # "high"/"low" when the old board held it at an enable level
 
     def to_json(self) -> dict:
         return asdict(self)
@@ -211,13 +212,25 @@ class PinMap:
         )
 
     @property
-    def ties_differ_from_old(self) -> bool:
-        """A tie lands on a pin whose old net was something else (the board must change)."""
-        return any(t.new_pin in self._old_signal_pins for t in self.ties)
+    def changed_ties(self) -> tuple[PinTie, ...]:
+        """Ties that land on a pin whose old net was something else (the board must change).
+
+        A tie is unchanged when the old board held the same pin number at the same level
+        (an enable input kept at its enabling level, e.g. B high under both a 74LS221
+        and a 74HC221).
+        """
+        held = {u.old_pin: u.old_level for u in self.unmatched if u.old_level is not None}
+        out = []
+        for t in self.ties:
+            level = "high" if t.level == "VCC" else "low"
+            if held.get(t.new_pin) == level:
+                continue
+            out.append(t)
+        return tuple(out)
 
     @property
-    def _old_signal_pins(self) -> set[int]:
-        return {link.old_pin for link in self.links} | {u.old_pin for u in self.unmatched}
+    def ties_differ_from_old(self) -> bool:
+        return bool(self.changed_ties)
 
     @property
     def blocking(self) -> tuple[Unmatched, ...]:
@@ -552,14 +565,13 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
 def _map_trigger(old, new, p, ch, new_ch, old_active, new_active, new_pins, link, unmatched) -> None:
     """The active trigger's net goes to the new active input; other old trigger pins were enable ties."""
     if old_active is not None and p.function == old_active.function:
-        already = any(True for _ in ())
         if new_active is None:
             unmatched.append(Unmatched(p.pin, p.name, p.function, ch,
                                        f"carries the {old_active.edge} trigger; {new.id} has no input for it",
                                        blocking=True))
             return
         cand = new_pins(new_active.function, new_ch)
-        if cand and not already:
+        if cand:
             note = None
             if new_active.function != p.function:
                 note = (f"{old.id} {p.function} → {new.id} {new_active.function}: "
@@ -578,4 +590,4 @@ def _map_trigger(old, new, p, ch, new_ch, old_active, new_active, new_pins, link
                 f"(the new part's enable ties are listed)")
     else:
         what = "not the active trigger input; its tie is not carried over"
-    unmatched.append(Unmatched(p.pin, p.name, p.function, ch, what, blocking=False))
+    unmatched.append(Unmatched(p.pin, p.name, p.function, ch, what, blocking=False, old_level=level))

@@ -12,9 +12,12 @@ edges, so the picture reads in any terminal font without colour.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from rich.text import Text
+from textual.reactive import reactive
+from textual.widget import Widget
 
 from advisor.tui.palette import STYLE
 from advisor.values import format_eng
@@ -55,8 +58,9 @@ def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
     if width is None and high is not None and low is not None:
         period = high + low
         n = 4
-        span = n * period
-        out = [(k * period, k * period + high) for k in range(n)]
+        lead = 0.5 * low  # start low so the first rising edge shows
+        span = lead + n * period
+        out = [(lead + k * period, lead + k * period + high) for k in range(n)]
         duty = high / period
         return Layout(span, [], out, [], f"free-running: high {format_eng(high, 's')}, low {format_eng(low, 's')}, duty {duty:.0%}", False)
     if width is None:
@@ -67,16 +71,15 @@ def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
         # One trigger, the pulse, and some quiet time after it.
         start = 0.15 * 2.5 * width
         span = 2.5 * width
-        return Layout(span, [(start, start + min(0.03 * span, width / 4))], [(start, start + width)],
+        return Layout(span, [(start, start + 1e-6 * span)], [(start, start + width)],
                       [(start, "fire")], f"one trigger: pulse {format_eng(width, 's')}", True)
     stays = bool(trig.get("stays_high")) if trig else False
     divide = trig.get("divide_by") if trig else None
     divide = int(divide) if isinstance(divide, (int, float)) and not isinstance(divide, bool) and divide >= 1 else 1
-    shown = divide if divide <= (max_triggers - 2) // 2 else 1  # too coarse to draw: draw one in n
-    n = max(4, min(max_triggers, 2 * shown + 2))
+    n = max(4, min(max_triggers, 2 * divide + 2))
     lead = 0.3 * t_period
     span = lead + n * t_period
-    blip = min(0.25 * t_period, 0.02 * span + 1e-30)
+    blip = 1e-6 * span  # drawn one column wide whatever its real width
     trig_high = [(lead + k * t_period, lead + k * t_period + blip) for k in range(n)]
     marks: list[tuple[float, str]] = []
     out: list[tuple[float, float]] = []
@@ -87,7 +90,7 @@ def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
     else:
         for k in range(n):
             t0 = lead + k * t_period
-            if k % shown == 0:
+            if k % divide == 0:
                 out.append((t0, t0 + width))
                 marks.append((t0, "fire"))
             else:
@@ -95,28 +98,29 @@ def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
         if divide == 1:
             caption = f"every trigger fires: pulse {format_eng(width, 's')} in a {format_eng(t_period, 's')} period"
         else:
-            caption = f"only every {divide}th trigger fires: the {format_eng(width, 's')} pulse outlasts the {format_eng(t_period, 's')} period"
-            if shown != divide:
-                caption += " (too many to draw: ignored triggers not all shown)"
+            caption = f"1 trigger in {divide} fires: the {format_eng(width, 's')} pulse outlasts the {format_eng(t_period, 's')} period"
+            if 2 * divide + 2 > max_triggers:
+                caption += f" (the next pulse starts off the picture, at trigger {divide})"
     return Layout(span, trig_high, out, marks, caption, True)
 
 
+def _col(t: float, dt: float, cols: int) -> int:
+    """Column whose centre is the first at or after time ``t``."""
+    return max(0, min(cols - 1, math.ceil(t / dt - 0.5)))
+
+
 def _levels(intervals: list[tuple[float, float]], span: float, cols: int) -> list[bool]:
-    """High/low per column; a pulse narrower than a column still shows as one column."""
+    """High/low per column, sampled at column centres; a pulse narrower than a
+    column still shows as one column so a short trigger never vanishes."""
     dt = span / cols
     lv = [False] * cols
     for a, b in intervals:
         if b <= 0 or a >= span:
             continue
-        i0 = max(0, int(a / dt))
-        i1 = min(cols - 1, int(min(b, span * (1 - 1e-12)) / dt))
-        if b >= span:
-            i1 = cols - 1
+        i0 = _col(a, dt, cols)
+        i1 = cols - 1 if b >= span else max(i0, min(cols - 1, math.ceil(b / dt - 0.5) - 1))
         for i in range(i0, i1 + 1):
-            lo, hi = i * dt, (i + 1) * dt
-            cover = min(hi, b) - max(lo, a)
-            if cover >= dt / 2 or i0 == i1:
-                lv[i] = True
+            lv[i] = True
     return lv
 
 
@@ -150,7 +154,7 @@ def draw(result: dict | None, width: int = 80) -> Text:
         row = [" "] * cols
         styles = [""] * cols
         for t, kind in lay.marks:
-            i = min(cols - 1, int(t / lay.span * cols))
+            i = _col(t, lay.span / cols, cols)
             row[i] = {"fire": "▲", "skip": "×", "restart": "↻"}[kind]
             styles[i] = {"fire": STYLE["good"], "skip": STYLE["skip"], "restart": STYLE["warning"]}[kind]
         text.append(" " * LABEL_W)
@@ -169,18 +173,11 @@ def draw(result: dict | None, width: int = 80) -> Text:
     return text
 
 
-def make_widget():
-    """The Textual widget class (built on demand so this module imports without Textual)."""
-    from textual.reactive import reactive
-    from textual.widget import Widget
+class TimingPicture(Widget):
+    """Draws :func:`draw` for the result it is given; redraws on resize."""
 
-    class TimingPicture(Widget):
-        """Draws :func:`draw` for the result it is given; redraws on resize."""
+    DEFAULT_CSS = "TimingPicture { height: auto; }"
+    result: reactive[dict | None] = reactive(None, layout=True)
 
-        DEFAULT_CSS = "TimingPicture { height: auto; }"
-        result: reactive[dict | None] = reactive(None, layout=True)
-
-        def render(self) -> Text:
-            return draw(self.result, max(30, self.content_size.width or 80))
-
-    return TimingPicture
+    def render(self) -> Text:
+        return draw(self.result, max(30, self.content_size.width or 80))

@@ -1,0 +1,70 @@
+"""The retime workbench: a Textual app with three desks and a help card.
+
+Desks (switched with F2–F4, kept alive while you move between them):
+
+- ``lookup``: type any part number, see ranked families and the family sheet;
+- ``workspace``: check one part or swap it for another, recomputed on every keystroke;
+- ``bom``: review a bill of materials file row by row.
+
+The app holds the catalog and hands parts from one desk to another; the desks
+render engine results and compute nothing themselves.
+"""
+
+from __future__ import annotations
+
+from textual.app import App
+from textual.binding import Binding
+
+from advisor.tui.bomview import BomScreen
+from advisor.tui.help import HelpScreen
+from advisor.tui.lookup import LookupScreen
+from advisor.tui.workspace import WorkspaceScreen
+
+
+class Workbench(App):
+    """``retime ui``. ``catalog`` overrides the shipped one (tests pass a tiny one)."""
+
+    CSS_PATH = "workbench.tcss"
+    TITLE = "retime workbench"
+    ENABLE_COMMAND_PALETTE = False
+    MODES = {"lookup": LookupScreen, "workspace": WorkspaceScreen, "bom": BomScreen}
+    DEFAULT_MODE = "lookup"
+    BINDINGS = [
+        Binding("f1", "show_help", "Help"),
+        Binding("f2", "switch_mode('lookup')", "Look up"),
+        Binding("f3", "switch_mode('workspace')", "Check/swap"),
+        Binding("f4", "switch_mode('bom')", "BOM"),
+        Binding("ctrl+q", "quit", "Quit", priority=True),
+    ]
+
+    def __init__(self, catalog=None, *, catalog_dirs: tuple[str, ...] = (), part: str | None = None,
+                 bom_file: str | None = None) -> None:
+        super().__init__()
+        self._catalog = catalog
+        self._catalog_dirs = tuple(catalog_dirs)
+        self.start_part = part
+        self.start_bom = bom_file
+        #: Fields the workspace takes over when it is next shown (set by the lookup desk).
+        self.pending_fields: dict[str, str] = {}
+
+    @property
+    def catalog(self):
+        """The catalog, loaded on first use; load problems stay listed in ``problems``."""
+        if self._catalog is None:
+            from advisor.catalog import load_catalog
+
+            self._catalog = load_catalog(self._catalog_dirs)
+        return self._catalog
+
+    def on_mount(self) -> None:
+        if self.start_bom:
+            self.switch_mode("bom")
+
+    def action_show_help(self) -> None:
+        if not isinstance(self.screen, HelpScreen):
+            self.push_screen(HelpScreen())
+
+    def open_in_workspace(self, **fields: str) -> None:
+        """Take part numbers (``old``/``new``) to the check/swap desk and show it."""
+        self.pending_fields.update(fields)
+        self.switch_mode("workspace")
