@@ -12,6 +12,7 @@ from functools import lru_cache
 from pathlib import Path
 
 import yaml
+from pydantic import BaseModel
 
 from advisor.errors import DataError, UnknownPartError
 from advisor.parts import RESERVED_SOURCES, Family, Sourced
@@ -93,7 +94,7 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
             src = getattr(obj, "source")
             if src not in known:
                 problems.append(Problem(file, f"{path}.source", f"unknown source {src!r}; expected one of {sorted(known)}"))
-        if hasattr(obj, "model_fields") and not isinstance(obj, type):
+        if isinstance(obj, BaseModel):
             for name in type(obj).model_fields:
                 visit(getattr(obj, name), f"{path}.{name}" if path else name)
         elif isinstance(obj, list):
@@ -197,11 +198,11 @@ def count_memory(fam: Family) -> int:
 
     def visit(obj: object) -> None:
         nonlocal n
-        if isinstance(getattr(obj, "source", None), str) and hasattr(obj, "model_fields"):
+        if isinstance(getattr(obj, "source", None), str) and isinstance(obj, BaseModel):
             n += obj.source == "memory"
         if hasattr(obj, "retrigger_source"):
             n += obj.retrigger_source == "memory"
-        if hasattr(obj, "model_fields") and not isinstance(obj, type):
+        if isinstance(obj, BaseModel):
             for name in type(obj).model_fields:
                 visit(getattr(obj, name))
         elif isinstance(obj, (list, tuple)):

@@ -67,6 +67,7 @@ class Circuit:
     trigger: Trigger = field(default_factory=Trigger)
     measured: Measurement | None = None
     target: Target | None = None
+    cont: float | None = None  # V, a 555's control pin driven to this voltage (None: open)
 
     def __post_init__(self) -> None:
         if self.pot_setting is not None and not 0.0 <= self.pot_setting <= 1.0:

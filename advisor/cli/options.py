@@ -21,6 +21,7 @@ _FLAGS: list[tuple[str, str, str]] = [
     ("--pot", "resistance", "variable resistor in series with the main timing resistor (RB in an astable)"),
     ("--pot-setting", "fraction", "fraction 0..1 of the variable resistor's travel in circuit"),
     ("--c", "capacitance", "timing capacitor, e.g. 10n, 2n2, 0.01u"),
+    ("--cont", "voltage", "555 control pin driven to this voltage (V); default open (2/3 of the supply)"),
     ("--r-tol", "fraction", "resistor tolerance, e.g. 1%% or 0.01 (default 5%%)"),
     ("--c-tol", "fraction", "capacitor tolerance (default 10%%)"),
     ("--trigger-period", "time", "period of the trigger signal, e.g. 64us"),
@@ -95,4 +96,44 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         trigger=Trigger(v.get("--trigger-period"), getattr(args, "trigger_edge", None), v.get("--trigger-high")),
         measured=measured,
         target=target,
+        cont=v.get("--cont"),
     )
+
+
+# --- reports (--report FILE on check, swap, alternates and bom) ---------------------
+
+
+def _report_path(text: str) -> str:
+    """argparse type for --report: the format must be clear from the extension."""
+    from pathlib import Path
+
+    suffix = Path(text).suffix.lower()
+    if suffix not in (".html", ".htm", ".md", ".markdown"):
+        raise argparse.ArgumentTypeError(
+            f"cannot tell the report format from {text!r}; name the file .html, .htm or .md"
+        )
+    return text
+
+
+def add_report_option(p: argparse.ArgumentParser) -> None:
+    """Register ``--report FILE`` (HTML or Markdown by the file's extension)."""
+    p.add_argument("--report", metavar="FILE", type=_report_path,
+                   help="also write a shareable report: FILE.html (pictures inline) or FILE.md")
+
+
+def write_report_if_asked(args: argparse.Namespace, result: object, kind: str) -> None:
+    """Write the report when ``--report`` was given; a note goes to stderr (stdout may hold JSON).
+
+    ``result`` is the engine's result object (or its ``to_json()`` dict); ``kind`` is
+    ``check``, ``swap``, ``alternates`` or ``bom``.
+    """
+    path = getattr(args, "report", None)
+    if not path:
+        return
+    import sys
+
+    from advisor.cli.output import catalog_for, to_plain
+    from advisor.report import render_report
+
+    written = render_report(to_plain(result), path, kind, catalog_for(args))
+    sys.stderr.write(f"retime: report written to {written}\n")

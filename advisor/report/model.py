@@ -292,7 +292,7 @@ def build_waves(timing: dict | None, trigger: dict | None, *, mode: str | None, 
     end = count * period
     triggers = tuple(k * period for k in range(count))
     if stays:
-        fired = tuple(k == 0 for k in range(count))
+        fired = tuple(True for _ in range(count))  # each trigger restarts the running pulse
         intervals: tuple[tuple[float, float], ...] = ((0.0, end),)
         note = ("Every trigger arrives before the pulse ends, so a retriggerable part restarts its "
                 "pulse each time and the output never falls.")

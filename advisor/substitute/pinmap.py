@@ -335,6 +335,32 @@ def _edge_name(edge: str) -> str:
     return {"level-low": "falling", "level-high": "rising"}.get(edge, edge)
 
 
+@dataclass(frozen=True)
+class _Pin:
+    pin: int
+    name: str
+    function: str
+    channel: int | None
+
+
+@dataclass(frozen=True)
+class _Pkg:
+    name: str
+    pins: tuple[_Pin, ...]
+
+
+def _normalised(fam: Family, pkg: Package) -> _Pkg:
+    """Pins with their effective channel: a single-section part's signal pins are section 1
+    even when the catalog leaves their channel out; supplies and NC stay shared."""
+    pins = []
+    for p in pkg.pins:
+        ch = p.channel
+        if ch is None and fam.channels == 1 and p.function not in (*POWER, "NC"):
+            ch = 1
+        pins.append(_Pin(p.pin, p.name, p.function, ch))
+    return _Pkg(pkg.name, tuple(pins))
+
+
 def map_pins(
     old: Family,
     new: Family,
@@ -352,6 +378,7 @@ def map_pins(
     resistor (no external Rext), so a new part without one needs an added resistor.
     """
     op, np_ = choose_packages(old, new, old_package, new_package)
+    op, np_ = _normalised(old, op), _normalised(new, np_)
     notes: list[str] = []
     links: list[PinLink] = []
     ties: list[PinTie] = []
@@ -476,7 +503,7 @@ def map_pins(
                   tuple(additions), polarity, tuple(notes))
 
 
-def _input_label(pkg: Package, trig: TriggerInput | None, channel: int) -> str | None:
+def _input_label(pkg: _Pkg, trig: TriggerInput | None, channel: int) -> str | None:
     if trig is None:
         return None
     for p in pkg.pins:

@@ -26,10 +26,22 @@ ENGINE_MODULES = ("advisor.partnumber", "advisor.timing", "advisor.rules", "advi
 
 
 def module_present(name: str) -> bool:
+    """True when the module exists as a real module or package (not a bare folder)."""
     try:
-        return importlib.util.find_spec(name) is not None
+        spec = importlib.util.find_spec(name)
     except (ImportError, ValueError):
         return False
+    return spec is not None and spec.origin is not None
+
+
+def engine_function(module: str, name: str):
+    """``module.name`` when that engine piece is installed, else None."""
+    if not module_present(module):
+        return None
+    try:
+        return getattr(importlib.import_module(module), name, None)
+    except ImportError:  # a piece the module needs is not there yet
+        return None
 
 
 def missing_modules() -> list[str]:
@@ -82,7 +94,8 @@ def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]
             zero_ok = True if spec.kind == "fraction" else None
             values[spec.key] = parse_quantity(text, spec.kind, zero_ok=zero_ok)
         except ValueParseError as exc:
-            errors[spec.key] = exc.render()
+            # Short form for a narrow column: the text quoted back and what would read.
+            errors[spec.key] = f"cannot read {text!r}; expected {exc.expected}" if exc.expected else exc.render()
             values[spec.key] = None
     sett = values.get("pot_setting")
     if sett is not None and not 0.0 <= float(sett) <= 1.0:  # type: ignore[arg-type]
@@ -179,23 +192,23 @@ def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Out
         return Outcome("error", part=old_fam.id, field_errors={"pot_setting": "a pot setting needs the pot's value; fill in Pot"})
     if new_query:
         new_fam = resolve(catalog, str(new_query))
-        if not module_present("advisor.substitute"):
+        swap = engine_function("advisor.substitute", "swap")
+        if swap is None:
             return Outcome("error", part=old_fam.id, new_part=new_fam.id, problem="swap engine (advisor.substitute) is not installed yet")
-        subst = importlib.import_module("advisor.substitute")
         circuit = build_circuit(old_fam.id, values)
-        result = subst.swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"))
+        result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"))
         data = result.to_json()
         return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
-    if not module_present("advisor.timing"):
+    analyse = engine_function("advisor.timing", "analyse")
+    if analyse is None:
         return Outcome("error", part=old_fam.id, problem="timing engine (advisor.timing) is not installed yet")
-    timing = importlib.import_module("advisor.timing")
     circuit = build_circuit(old_fam.id, values)
-    result = timing.analyse(old_fam, circuit)
+    result = analyse(old_fam, circuit)
     data = result.to_json()
     found = list(data.get("findings") or [])
-    if module_present("advisor.rules"):
-        rules = importlib.import_module("advisor.rules")
-        found.extend(rules.check_findings(old_fam, circuit, data))
+    check_findings = engine_function("advisor.rules", "check_findings")
+    if check_findings is not None:
+        found.extend(check_findings(old_fam, circuit, data))
     return Outcome("check", data=data, findings=sorted_findings(found), part=old_fam.id)
 
 
@@ -218,9 +231,9 @@ def find_parts(catalog, query: str, limit: int = 12) -> tuple[list[Hit], str | N
         hits = [Hit(fid, 0.0, "list", catalog.families[fid].title) for fid in catalog.ids()]
         return hits, None
     try:
-        if module_present("advisor.partnumber"):
-            pn = importlib.import_module("advisor.partnumber")
-            matches = pn.recognise(catalog, q, limit=limit)
+        recognise = engine_function("advisor.partnumber", "recognise")
+        if recognise is not None:
+            matches = recognise(catalog, q, limit=limit)
             hits = []
             for m in matches:
                 fam = catalog.families.get(str(m.family).upper())

@@ -23,7 +23,7 @@ KEYS: list[tuple[str, str, str]] = [
     ("", "Ctrl+N", "take the chosen family as the replacement"),
     ("check/swap", "type", "every change recomputes the values, band, findings and picture"),
     ("", "Ctrl+L", "clear the form"),
-    ("", "Ctrl+X", "exchange the part and its replacement"),
+    ("", "Ctrl+R", "exchange the part and its replacement"),
     ("BOM", "Enter", "read the file named in the path field"),
     ("", "Ctrl+S", "write the reviewed rows next to the input (…-reviewed.csv)"),
 ]

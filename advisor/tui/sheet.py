@@ -96,20 +96,38 @@ def render_sheet(fam) -> Group:
 
     b = fam.behaviour
     out.append(_section("Behaviour"))
-    t = _value_table()
-    t.add_row("retriggerable", b.retrigger, "", _src(b.retrigger_source))
+    line = Text("retriggerable: ", style=S["key"])
+    line.append(b.retrigger)
+    line.append("  ")
+    line.append_text(_src(b.retrigger_source))
+    out.append(line)
     for trig in b.triggers:
         enable = ", ".join(f"{k} {v}" for k, v in trig.enable.items())
-        t.add_row(f"trigger {trig.name}", f"{trig.edge}{' · Schmitt' if trig.schmitt else ''}", f"with {enable}" if enable else "", "")
+        line = Text(f"trigger {trig.name}: ", style=S["key"])
+        line.append(f"{trig.edge}{', Schmitt' if trig.schmitt else ''}")
+        if enable:
+            line.append(f" (with {enable})", style=S["dim"])
+        out.append(line)
     if b.clear is not None:
         cl = b.clear
-        what = f"active {cl.active}; {'ends the pulse' if cl.ends_pulse else 'does not end the pulse'}"
+        line = Text(f"clear {cl.name}: ", style=S["key"])
+        line.append(f"active {cl.active}; {'ends the pulse' if cl.ends_pulse else 'does not end the pulse'}")
         if cl.triggers_on_release:
-            what += "; release can trigger"
-        t.add_row(f"clear {cl.name}", what, "", _src(cl.source))
-    out.append(t)
+            line.append("; release can trigger")
+        line.append("  ")
+        line.append_text(_src(cl.source))
+        out.append(line)
+    for name, label in (("retrigger_min", "shortest retrigger spacing"), ("recovery", "recovery after a pulse")):
+        v = getattr(b, name)
+        if v is not None:
+            line = Text(f"{label}: ", style=S["key"])
+            line.append(format_eng(v.value, "s") + "  ")
+            line.append_text(_src(v.source))
+            out.append(line)
     if b.power_up:
         out.append(Text(f"power-up: {b.power_up}", style=S["dim"]))
+    if b.note:
+        out.append(Text(b.note, style=S["dim"]))
 
     itf = fam.interface
     out.append(_section("Inputs and outputs"))

@@ -1,0 +1,72 @@
+"""``retime catalog list|check``: the families on file, and a full validation."""
+
+from __future__ import annotations
+
+NAME = "catalog"
+HELP = "list the part families, or check every catalog (and rules) file for problems"
+
+
+def register(parser) -> None:
+    parser.add_argument("action", choices=["list", "check"], help="list: all families; check: validate, exit 1 on problems")
+
+
+def _summary(cat, key: str) -> dict:
+    from advisor.catalog import count_memory
+
+    fam = cat.families[key]
+    return {"id": fam.id, "title": fam.title, "function": fam.function, "technology": fam.technology,
+            "channels": fam.channels, "status": fam.status, "retrigger": fam.behaviour.retrigger,
+            "law": fam.timing.law, "supply_min": fam.supply.recommended.min,
+            "supply_max": fam.supply.recommended.max, "part_numbers": fam.part_numbers,
+            "packages": [p.name for p in fam.packages], "file": cat.files[key],
+            "memory_values": count_memory(fam)}
+
+
+def _rules_problems() -> list[str]:
+    """Rules live in another module; check them when it is present."""
+    try:
+        from advisor.rules import load_rules
+    except ImportError:
+        return []
+    from advisor.errors import RetimeError
+
+    try:
+        load_rules()
+    except RetimeError as exc:
+        return [exc.render()]
+    return []
+
+
+def run(args) -> int:
+    from advisor.catalog import load_catalog
+    from advisor.cli.output import catalog_for, emit_json
+
+    if args.action == "list":
+        cat = catalog_for(args)
+        rows = [_summary(cat, k) for k in cat.ids()]
+        if args.json:
+            emit_json({"families": rows})
+            return 0
+        width = max((len(r["id"]) for r in rows), default=2)
+        for r in rows:
+            flag = f"  ({r['memory_values']} from memory)" if r["memory_values"] else ""
+            print(f"{r['id']:<{width}}  {r['technology']:<9} {r['channels']}ch  retrigger {r['retrigger']:<10} "
+                  f"{r['supply_min']:g}-{r['supply_max']:g} V  {r['title']}{flag}")
+        print(f"{len(rows)} families")
+        return 0
+
+    cat = load_catalog(tuple(getattr(args, "catalog", []) or []))
+    problems = [str(p) for p in cat.problems] + _rules_problems()
+    rows = [_summary(cat, k) for k in cat.ids()]
+    memory = sum(r["memory_values"] for r in rows)
+    by_family = {r["id"]: r["memory_values"] for r in rows if r["memory_values"]}
+    if args.json:
+        emit_json({"ok": not problems, "families": len(rows), "problems": problems,
+                   "memory_values": memory, "memory_by_family": by_family})
+    else:
+        for line in problems:
+            print(line)
+        verdict = "ok" if not problems else f"{len(problems)} problem(s)"
+        print(f"catalog: {len(rows)} families, {verdict}; {memory} values still from memory (unverified)"
+              + (f" in {len(by_family)} families" if by_family else ""))
+    return 1 if problems else 0

@@ -1,0 +1,201 @@
+"""`retime check PART [circuit options]`: timing of an existing circuit."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+NAME = "check"
+HELP = "timing of an existing circuit: band, adjustment range, target, trigger verdict, findings"
+DESCRIPTION = (
+    "Compute the pulse width (one-shots, 555 monostables) or the high/low times, period and duty "
+    "(555 and 4047 astables) of a circuit with the part's published law, with the worst-case band "
+    "from component tolerances and the makers' constants, the range over a variable resistor's "
+    "travel, a target's reachability, calibration from a measured time, and what a trigger of a "
+    "given period does. Tolerances default to R 5 %% and C 10 %% and are shown when assumed."
+)
+
+
+def register(p: argparse.ArgumentParser) -> None:
+    from advisor.cli.options import add_circuit_options
+
+    p.add_argument("part", metavar="PART", help="family id or part number, e.g. NE555, SN74HC221N")
+    add_circuit_options(p)
+    p.add_argument("--range", metavar="TMIN..TMAX", help="acceptance window for the width (or period); adds a Monte Carlo share inside it")
+    p.add_argument("--monte-carlo", metavar="N", type=int, help="run a Monte Carlo of N samples (numpy)")
+    try:
+        from advisor.cli.options import add_report_option
+
+        add_report_option(p)
+    except ImportError:
+        pass
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import circuit_from_args
+    from advisor.cli.output import catalog_for, emit_json
+    from advisor.errors import InputError
+    from advisor.timing import analyse
+
+    catalog = catalog_for(args)
+    family = catalog.resolve(args.part)
+    circuit = circuit_from_args(args, family.id)
+    if args.monte_carlo is not None and not 100 <= args.monte_carlo <= 10_000_000:
+        raise InputError("--monte-carlo: give between 100 and 10 000 000 samples", got=args.monte_carlo)
+    result = analyse(family, circuit, samples=args.monte_carlo)
+    result.findings.extend(rule_findings(family, circuit, result.to_json()))
+    try:
+        from advisor.cli.options import write_report_if_asked
+
+        write_report_if_asked(args, result, "check")
+    except ImportError:
+        pass
+    if args.json:
+        emit_json(result.to_json())
+    else:
+        sys.stdout.write(render_text(result.to_json()))
+    return 0
+
+
+def rule_findings(family, circuit, timing_json: dict) -> list:
+    """Datasheet-rule findings from advisor.rules (the hook stays harmless if it is absent)."""
+    try:
+        from advisor.rules import check_findings
+    except ImportError:
+        return []
+    return list(check_findings(family, circuit, timing_json))
+
+
+# ----------------------------------------------------------------------------- text
+
+
+def _t(v) -> str:
+    from advisor.values import format_eng
+
+    return format_eng(v, "s") if v is not None else "—"
+
+
+def _pct(v: float) -> str:
+    return f"{v * 100:.3g} %"
+
+
+def timing_lines(timing: dict, mode: str) -> list[tuple[str, str]]:
+    """(label, text) rows for a timing object {nominal, min, max}."""
+    from advisor.values import format_eng
+
+    n, lo, hi = timing["nominal"], timing["min"], timing["max"]
+    if mode == "mono":
+        return [("width", f"{_t(n['width'])}   band {_t(lo['width'])} … {_t(hi['width'])}")]
+    return [
+        ("frequency", f"{format_eng(n['frequency'], 'Hz')}   band {format_eng(lo['frequency'], 'Hz')} … {format_eng(hi['frequency'], 'Hz')}"),
+        ("period", f"{_t(n['period'])}   band {_t(lo['period'])} … {_t(hi['period'])}"),
+        ("high / low", f"{_t(n['high'])} / {_t(n['low'])}   duty {_pct(n['duty'])} (band {_pct(lo['duty'])} … {_pct(hi['duty'])})"),
+    ]
+
+
+def network_text(values: dict, mode: str) -> str:
+    from advisor.values import format_eng
+
+    parts = []
+    if values.get("ra") is not None:
+        parts.append(f"RA {format_eng(values['ra'], 'Ω')}")
+        rb = f"RB {format_eng(values['rb'], 'Ω')}"
+        if values.get("pot"):
+            rb += f" + pot {format_eng(values['pot'], 'Ω')}" + (f" at {_pct(values['pot_setting'])}" if values.get("pot_setting") is not None else "")
+        parts.append(rb)
+    elif values.get("r") is not None:
+        r = f"R {format_eng(values['r'], 'Ω')}" + (" (internal)" if values.get("r_internal") else "")
+        if values.get("pot"):
+            r += f" + pot {format_eng(values['pot'], 'Ω')}" + (f" at {_pct(values['pot_setting'])}" if values.get("pot_setting") is not None else "")
+        parts.append(r)
+    parts.append(f"C {format_eng(values['c'], 'F')}")
+    if values.get("cont") is not None:
+        parts.append(f"CONT driven to {format_eng(values['cont'], 'V')}")
+    return ",  ".join(parts)
+
+
+def tolerance_text(tol: dict) -> str:
+    d = tol.get("defaulted", {})
+    r = f"R ±{_pct(tol['r_tol'])}" + (" (assumed)" if d.get("r_tol") else "")
+    c = f"C ±{_pct(tol['c_tol'])}" + (" (assumed)" if d.get("c_tol") else "")
+    return f"{r}, {c}; band also spans the makers' constants"
+
+
+def findings_lines(findings: list[dict]) -> list[str]:
+    mark = {"danger": "!!", "warning": "! ", "note": "· "}
+    out = []
+    for f in findings:
+        out.append(f"  {mark.get(f['severity'], '  ')} {f['severity']:<7} {f['rule']}: {f['message']}")
+        if f.get("fix"):
+            out.append(f"             fix: {f['fix']}")
+        if f.get("source"):
+            out.append(f"             source: {f['source']}")
+    return out
+
+
+def render_text(j: dict) -> str:
+    """Compact text for the bench (reporter; the engine never prints)."""
+    from advisor.values import format_eng
+
+    mode = j["mode"]
+    kind = "monostable" if mode == "mono" else "astable"
+    rows: list[tuple[str, str]] = [
+        ("network", network_text(j["values"], mode)),
+        ("supply", format_eng(j["values"]["vcc"], "V")),
+        ("tolerance", tolerance_text(j["tolerances"])),
+    ]
+    rows += timing_lines(j["timing"], mode)
+    cal = j.get("calibration")
+    if cal:
+        rows.append(("calibrated", f"×{cal['factor']:.4f} from the measured {cal['quantity']} {_t(cal['measured'])} "
+                                   f"(law gives {_t(cal['predicted'])}); all times scaled"))
+    adj = j.get("adjust")
+    if adj:
+        key = "width" if mode == "mono" else "period"
+        rows.append(("adjust", f"{key} {_t(adj['min'][key])} (pot at 0) … {_t(adj['max'][key])} (pot at full)"))
+    tgt = j.get("target")
+    if tgt:
+        q = tgt["quantity"]
+        val = format_eng(tgt["value"], "Hz") if q == "frequency" else _t(tgt["value"])
+        if tgt["reachable"]:
+            how = f"reachable at {_pct(tgt['setting'])} of the travel" if tgt.get("setting") is not None else "inside the band"
+            if tgt.get("reachable_worst_case") is False:
+                how += "; not on every board within tolerance"
+        else:
+            how = "NOT reachable" + (" over the pot's travel" if adj else f" (nominal is {tgt['error'] * 100:+.2f} % off)")
+        rows.append(("target", f"{q} {val}: {how}"))
+    trig = j.get("trigger")
+    if trig:
+        if trig.get("stays_high"):
+            verdict = "the output never falls (each trigger restarts the pulse)"
+        elif trig.get("divide_by") == 1:
+            verdict = f"every trigger fires a pulse (duty {_pct(trig['duty'])})"
+        elif trig.get("divide_by"):
+            from advisor.timing.trigger import ordinal
+
+            verdict = f"only every {ordinal(trig['divide_by'])} trigger fires (output period {_t(trig['output_period'])})"
+        else:
+            verdict = trig.get("note") or "not applicable"
+        if trig.get("divide_by_range"):
+            a, b = trig["divide_by_range"]
+            verdict += f"; 1 in {a} to 1 in {b} within tolerance"
+        rows.append(("trigger", f"every {_t(trig['period'])}: {verdict}"))
+    dist = j.get("distribution")
+    if dist:
+        q = dist["quantity"]
+        f = (lambda v: format_eng(v, "Hz")) if q == "frequency" else _t
+        txt = f"{dist['samples']} samples: median {f(dist['median'])}, 99.8 % within {f(dist['p001'])} … {f(dist['p999'])}"
+        if dist.get("share_in_window") is not None:
+            txt += f"; {_pct(dist['share_in_window'])} inside {f(dist['window']['min'])} … {f(dist['window']['max'])}"
+        rows.append(("spread", txt))
+    for a in j.get("assumptions", []):
+        rows.append(("assumed", a))
+    width = max(len(k) for k, _ in rows)
+    lines = [f"{j['part']} {kind}  (law {j['law']})"]
+    lines += [f"  {k:<{width}}  {v}" for k, v in rows]
+    if j["findings"]:
+        lines.append("findings")
+        lines += findings_lines(j["findings"])
+    else:
+        lines.append("findings: none")
+    return "\n".join(lines) + "\n"

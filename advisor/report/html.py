@@ -1,0 +1,178 @@
+"""The HTML report: one self-contained file (inline CSS and SVG; no scripts, fonts or
+links to the network), so it can be mailed, attached to a review or archived with
+the board's records and still open years later.
+
+Every number is written with ``data-key`` (its dotted path in the result JSON) and
+``data-si`` (the SI value) beside the formatted text, so a reader's tools, and the
+tests, can tie the page back to the result.
+"""
+
+from __future__ import annotations
+
+from html import escape
+
+from advisor import __version__
+from advisor.report import diagrams
+from advisor.report.model import Quantity, Report, Table
+
+SEVERITY_TITLES = {"danger": "Stop: must be fixed", "warning": "Check before fitting", "note": "Worth knowing"}
+
+CLASS_WORDS = {
+    "drop-in": "fits the socket as it is",
+    "drop-in-new-values": "fits the socket with new R/C values",
+    "rewire": "needs rewiring (pins move)",
+    "redesign": "needs a redesigned network",
+    "unsuitable": "not suitable",
+}
+
+_CSS = """
+:root { --ink:#1f2a33; --muted:#5b6670; --line:#d5dbe0; --paper:#ffffff; --band:#f3f5f7;
+  --danger:#9e2a1f; --danger-bg:#fbeceA; --warning:#8a5a00; --warning-bg:#fff4dc;
+  --note:#2b4c6f; --note-bg:#e9f0f7; --accent:#b5562a; }
+* { box-sizing: border-box; }
+body { margin:0; background:var(--paper); color:var(--ink);
+  font: 15px/1.5 "DejaVu Sans", "Segoe UI", Helvetica, Arial, sans-serif; }
+main { max-width: 60rem; margin: 0 auto; padding: 1.5rem 1.25rem 3rem; }
+header { border-bottom: 3px solid var(--accent); margin-bottom: 1.25rem; padding-bottom: .75rem; }
+.kicker { text-transform: uppercase; letter-spacing: .08em; font-size: .75rem; color: var(--muted); margin: 0; }
+h1 { font-size: 1.6rem; margin: .2rem 0 .4rem; }
+h2 { font-size: 1.2rem; margin: 2rem 0 .6rem; border-bottom: 1px solid var(--line); padding-bottom: .2rem; }
+h3 { font-size: 1rem; margin: 1rem 0 .4rem; }
+.lead { font-size: 1.05rem; margin: .2rem 0; }
+.verdict { display:inline-block; padding:.15rem .6rem; border-radius:1rem; background:var(--band);
+  border:1px solid var(--line); font-weight:600; }
+table { border-collapse: collapse; margin: .4rem 0 1rem; min-width: 50%; }
+th, td { text-align: left; padding: .3rem .7rem; border-bottom: 1px solid var(--line); vertical-align: top; }
+th { background: var(--band); font-weight: 600; }
+td.num { font-variant-numeric: tabular-nums; white-space: nowrap; }
+.pics { display: grid; gap: 1.25rem; }
+figure { margin: 0; padding: .75rem; border: 1px solid var(--line); border-radius: .4rem; background: #fff; }
+figure svg.pic { display:block; max-width: 100%; height: auto; margin: 0 auto; }
+figcaption { color: var(--muted); font-size: .9rem; margin-top: .5rem; }
+ol.findings { list-style: none; padding: 0; }
+li.finding { border-left: 5px solid var(--note); background: var(--note-bg); padding: .5rem .8rem; margin: .5rem 0; border-radius: 0 .3rem .3rem 0; }
+li.sev-danger { border-color: var(--danger); background: var(--danger-bg); }
+li.sev-warning { border-color: var(--warning); background: var(--warning-bg); }
+li.finding p { margin: .15rem 0; }
+.tag { font-size: .75rem; font-weight: 700; text-transform: uppercase; letter-spacing: .05em; margin-right: .4rem; }
+.sev-danger .tag { color: var(--danger); } .sev-warning .tag { color: var(--warning); } .sev-note .tag { color: var(--note); }
+.rule, .src { color: var(--muted); font-size: .85rem; }
+ol.bench li { margin: .3rem 0; }
+.cautions { border: 2px solid var(--danger); border-radius: .4rem; padding: .25rem 1rem .5rem; background: #fffaf8; }
+.cautions h2 { border: 0; margin-top: .6rem; color: var(--danger); }
+.notes li { color: var(--muted); }
+footer { margin-top: 2.5rem; color: var(--muted); font-size: .8rem; border-top: 1px solid var(--line); padding-top: .5rem; }
+@media print { main { max-width: none; } figure { break-inside: avoid; } }
+"""
+
+
+def _q_cells(q: Quantity) -> str:
+    si = "" if q.value is None else f' data-si="{q.value!r}"'
+    key = f' data-key="{escape(q.key)}"' if q.key else ""
+    return f"<th>{escape(q.label)}</th><td class=\"num\"{key}{si}>{escape(q.text)}</td>"
+
+
+def _q_table(qs: list[Quantity], cls: str) -> str:
+    if not qs:
+        return ""
+    rows = "".join(f"<tr>{_q_cells(q)}</tr>" for q in qs)
+    return f'<table class="{cls}"><tbody>{rows}</tbody></table>'
+
+
+def _table(t: Table, cls: str) -> str:
+    head = "".join(f"<th>{escape(c.replace('_', ' '))}</th>" for c in t.columns)
+    body = "".join("<tr>" + "".join(f"<td>{escape(v)}</td>" for v in row) + "</tr>" for row in t.rows)
+    return f'<table class="{cls}"><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>'
+
+
+def _pictures(rep: Report) -> str:
+    figs = []
+    if rep.waves is not None:
+        svg = diagrams.timing_svg(rep.waves)
+        figs.append(f'<figure class="pic-timing">{svg}<figcaption>Pulse picture, drawn from the computed '
+                    f'nominal timing. {escape(rep.waves.note)}</figcaption></figure>')
+    for net in rep.networks:
+        svg = diagrams.network_svg(net)
+        rows = "".join(
+            f'<tr><td>{escape(i.ref)}</td><td>{escape(i.role)}</td><td class="num" data-key="{escape(i.key)}" '
+            f'data-si="{i.value!r}">{escape(i.text)}</td><td>{escape(i.code)}</td><td>{escape(", ".join(i.pins) or "—")}</td></tr>'
+            for i in net.items)
+        table = ('<table class="network"><thead><tr><th>ref</th><th>what</th><th>value</th><th>code</th>'
+                 f'<th>connects to</th></tr></thead><tbody>{rows}</tbody></table>')
+        where = f"{net.package} pin numbers, section 1" if net.package else "pin numbers not in the catalog"
+        figs.append(f'<figure class="pic-network">{svg}<figcaption>Timing network to fit on the {escape(net.part)} '
+                    f'({escape(where)}).</figcaption>{table}</figure>')
+    if not figs:
+        return ""
+    return f'<section id="pictures"><h2>Pictures</h2><div class="pics">{"".join(figs)}</div></section>'
+
+
+def _findings(rep: Report) -> str:
+    if not rep.findings:
+        return '<section id="findings"><h2>What the checks found</h2><p>No rule fired for this circuit.</p></section>'
+    out = ['<section id="findings"><h2>What the checks found</h2>']
+    for sev in ("danger", "warning", "note"):
+        items = [f for f in rep.findings if f.severity == sev]
+        if not items:
+            continue
+        out.append(f'<h3>{escape(SEVERITY_TITLES[sev])} ({len(items)})</h3><ol class="findings">')
+        for f in items:
+            part = f" · {escape(f.part)}" if f.part else ""
+            out.append(
+                f'<li class="finding sev-{sev}" data-rule="{escape(f.rule)}" data-severity="{sev}">'
+                f'<p><span class="tag">{sev}</span>{escape(f.message)}</p>'
+                + (f'<p class="fix"><strong>Fix:</strong> {escape(f.fix)}</p>' if f.fix else "")
+                + f'<p class="src">Source: {escape(f.source or "not stated")} <span class="rule">· rule {escape(f.rule)}{part}</span></p></li>')
+        out.append("</ol>")
+    out.append("</section>")
+    return "".join(out)
+
+
+def render_html(rep: Report) -> str:
+    """The whole page as text."""
+    parts = [
+        "<!DOCTYPE html>",
+        '<html lang="en"><head><meta charset="utf-8">',
+        '<meta name="viewport" content="width=device-width, initial-scale=1">',
+        f"<title>{escape(rep.title)}</title><style>{_CSS}</style></head><body><main>",
+        f'<header><p class="kicker">retime · {escape(rep.kind)} report</p><h1>{escape(rep.title)}</h1>',
+        f'<p class="lead">{escape(rep.lead)}</p>',
+    ]
+    if rep.verdict:
+        words = CLASS_WORDS.get(rep.verdict, "")
+        parts.append(f'<p>Outcome: <span class="verdict" data-class="{escape(rep.verdict)}">{escape(rep.verdict)}</span> '
+                     f'{escape(words)}</p>')
+    parts.append("</header>")
+    if rep.facts or rep.notes:
+        parts.append('<section id="glance"><h2>At a glance</h2>' + _q_table(rep.facts, "facts"))
+        if rep.notes:
+            parts.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.notes) + "</ul>")
+        parts.append("</section>")
+    if any(qs for _, qs in rep.parts):
+        parts.append('<section id="parts"><h2>Parts and values</h2>')
+        for heading, qs in rep.parts:
+            if qs:
+                parts.append(f"<h3>{escape(heading)}</h3>" + _q_table(qs, "part-values"))
+        parts.append("</section>")
+    for heading, t in rep.extra_tables:
+        parts.append(f'<section class="table"><h2>{escape(heading)}</h2>{_table(t, "extra")}</section>')
+    parts.append(_pictures(rep))
+    parts.append(_findings(rep))
+    if rep.pin_map is not None:
+        parts.append(f'<section id="pins"><h2>Pin moves</h2>{_table(rep.pin_map, "pin-map")}</section>')
+    if rep.rework:
+        parts.append('<section id="bench"><h2>Bench steps</h2><ol class="bench">'
+                     + "".join(f"<li>{escape(s)}</li>" for s in rep.rework) + "</ol></section>")
+    parts.append('<section id="cautions" class="cautions"><h2>Take care</h2><ul>'
+                 + "".join(f"<li>{escape(c)}</li>" for c in rep.cautions) + "</ul></section>")
+    if rep.sources:
+        rows = "".join(
+            f'<tr><td>{escape(s.family)}</td><td>{escape(s.title)}</td><td>{escape(s.document)}</td>'
+            f'<td>{escape(s.kind)}</td><td>{"cited here" if s.cited else ""}</td></tr>' for s in rep.sources)
+        parts.append('<section id="sources"><h2>Where the numbers come from</h2><table class="sources"><thead><tr>'
+                     '<th>family</th><th>title</th><th>document</th><th>kind</th><th></th></tr></thead>'
+                     f"<tbody>{rows}</tbody></table><p class=\"src\">Values marked memory are recalled, not "
+                     "confirmed by a published source: treat them as unverified.</p></section>")
+    parts.append(f"<footer>Written by retime {escape(__version__)} from the computed result. Times and values are "
+                 "nominal unless marked min or max.</footer></main></body></html>")
+    return "\n".join(p for p in parts if p)

@@ -1,0 +1,425 @@
+"""The rule context: a flat, documented vocabulary of plain values.
+
+:func:`build_context` turns a part family (catalog), a :class:`Circuit` and the
+timing engine's JSON (``TimingResult.to_json()``, keys per the design guide) into
+a dict of plain numbers, booleans and strings. Rule conditions read only these
+names; nothing in the context is a live object, so an expression can reach no
+Python internals.
+
+Names, all in SI base units (V, Ω, F, s, Hz, A; fractions for ratios):
+
+- per part, under the prefix ``new.`` (the part being checked, or the
+  replacement in a swap) and ``old.`` (the part being replaced, swaps only):
+  the fields of :data:`PART_VOCABULARY`. Rules that look at one part at a time
+  write them as ``part.<field>`` and the engine binds ``part`` to each part the
+  rule applies to (``applies_to.parts``).
+- top level: :data:`TOP_VOCABULARY` (swap comparisons).
+
+A value the catalog or the circuit does not give is ``None``; conditions that
+need it stay silent (see :mod:`advisor.rules.safe_expr`).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+from advisor.circuit import Circuit
+from advisor.parts import Family, Sourced
+
+Kind = Literal["number", "bool", "text"]
+
+
+@dataclass(frozen=True)
+class Var:
+    name: str
+    kind: Kind
+    unit: str
+    doc: str
+
+
+def _v(name: str, kind: Kind, unit: str, doc: str) -> Var:
+    return Var(name, kind, unit, doc)
+
+
+#: Fields every part carries (prefix ``new.``/``old.``, or ``part.`` in part rules).
+PART_VOCABULARY: tuple[Var, ...] = (
+    # identity
+    _v("id", "text", "", "family id, e.g. 74HC221"),
+    _v("function", "text", "", "timer-555, monostable, monostable-astable, programmable-timer"),
+    _v("technology", "text", "", "bipolar, cmos-555, ttl, ls, als, hc, hct, ac, ahc, ahct, vhc, lv, lvc, cmos-4000"),
+    _v("status", "text", "", "active, obsolete, nrnd, unknown"),
+    _v("channels", "number", "", "timers or one-shots per package"),
+    _v("is_555", "bool", "", "function is timer-555"),
+    _v("cmos", "bool", "", "a CMOS technology (cmos-555, 4000 series, HC/HCT/AC/AHC/VHC/LV/LVC...)"),
+    _v("bipolar", "bool", "", "a bipolar technology (bipolar 555, TTL, LS, ALS)"),
+    _v("ttl_inputs", "bool", "", "inputs use TTL levels (VIH 2.0 V, VIL 0.8 V)"),
+    # supply
+    _v("vcc", "number", "V", "supply voltage of the circuit"),
+    _v("supply_min", "number", "V", "recommended supply, lower end"),
+    _v("supply_max", "number", "V", "recommended supply, upper end"),
+    _v("abs_max", "number", "V", "absolute maximum supply"),
+    # timing network
+    _v("mode", "text", "", "mono or astable"),
+    _v("r", "number", "Ω", "main fixed timing resistor (Rext, or RA)"),
+    _v("ra", "number", "Ω", "555 astable RA"),
+    _v("rb", "number", "Ω", "555 astable RB"),
+    _v("pot", "number", "Ω", "variable resistor in series with the main resistor (RB in an astable)"),
+    _v("pot_setting", "number", "", "fraction of the pot's travel in circuit (0 = shorted)"),
+    _v("has_pot", "bool", "", "a variable resistor is in the timing network"),
+    _v("c", "number", "F", "timing capacitor"),
+    _v("r_total_min", "number", "Ω", "timing resistance with the pot at 0 (mono: R; astable: RA+RB)"),
+    _v("r_total_max", "number", "Ω", "timing resistance with the pot at full travel"),
+    _v("r_setting", "number", "Ω", "timing resistance at the given pot setting"),
+    _v("r_discharge_min", "number", "Ω", "smallest resistance between the supply and the discharge/timing pin (555 astable: RA)"),
+    # catalog limits at this supply and C
+    _v("r_min", "number", "Ω", "smallest timing resistance the datasheet allows (strictest value that applies)"),
+    _v("r_max", "number", "Ω", "largest timing resistance the datasheet allows"),
+    _v("c_min", "number", "F", "smallest timing capacitor the datasheet allows"),
+    _v("c_max", "number", "F", "largest timing capacitor the datasheet allows"),
+    _v("c_linear_min", "number", "F", "capacitance below which the timing law stops holding"),
+    _v("f_max", "number", "Hz", "frequency above which the formula stops holding"),
+    _v("limit_width_min", "number", "s", "shortest pulse the datasheet specifies"),
+    _v("limit_width_max", "number", "s", "longest pulse the datasheet specifies"),
+    _v("r_internal", "number", "Ω", "on-chip timing resistor, if any"),
+    _v("has_r_internal", "bool", "", "the part has an on-chip timing resistor"),
+    _v("electrolytic", "text", "", "the datasheet's note on fitting a polarised Cext"),
+    _v("has_electrolytic_note", "bool", "", "the catalog has an electrolytic-Cext note for the part"),
+    # law constant
+    _v("k", "number", "", "first published value of the law's main constant that applies"),
+    _v("k_min", "number", "", "smallest published value of that constant"),
+    _v("k_max", "number", "", "largest published value of that constant"),
+    _v("k_spread", "number", "", "k_max / k_min - 1 (makers' disagreement)"),
+    _v("k_sources", "number", "", "how many published values apply"),
+    # timing results (TimingResult.to_json())
+    _v("width", "number", "s", "nominal output pulse width (one-shots, 555 monostable)"),
+    _v("width_min", "number", "s", "worst-case shortest width"),
+    _v("width_max", "number", "s", "worst-case longest width"),
+    _v("period", "number", "s", "nominal astable period"),
+    _v("frequency", "number", "Hz", "nominal astable frequency"),
+    _v("frequency_max", "number", "Hz", "worst-case highest astable frequency"),
+    _v("high", "number", "s", "nominal astable high time"),
+    _v("low", "number", "s", "nominal astable low time"),
+    _v("duty", "number", "", "nominal astable duty (high fraction)"),
+    _v("calibration_factor", "number", "", "measured / predicted, when a measurement was given"),
+    # trigger
+    _v("trigger_period", "number", "s", "period of the trigger signal"),
+    _v("trigger_edge", "text", "", "active edge of the trigger signal: rising or falling"),
+    _v("trigger_high", "number", "V", "high level of the driving signal"),
+    _v("pulse_duty", "number", "", "width / trigger_period (one-shots)"),
+    _v("divide_by", "number", "", "1 when every trigger fires a pulse, n when only every n-th does"),
+    _v("stays_high", "bool", "", "a retriggerable part whose pulse never ends at this trigger rate"),
+    # behaviour
+    _v("retrigger", "text", "", "yes, no or selectable"),
+    _v("accepts_edge", "bool", "", "the part has an input for trigger_edge"),
+    _v("edge_input", "text", "", "the input the trigger edge must reach (maker's label)"),
+    _v("edge_input_pin", "number", "", "its pin number, section 1, default package"),
+    _v("edge_input_schmitt", "bool", "", "that input has a Schmitt trigger"),
+    _v("edge_input_enable", "text", "", "levels the other inputs must sit at to enable it"),
+    _v("any_non_schmitt", "bool", "", "some trigger input has no Schmitt trigger"),
+    _v("has_clear", "bool", "", "the part has a clear/reset input"),
+    _v("clear_name", "text", "", "its label"),
+    _v("clear_active", "text", "", "low or high"),
+    _v("clear_ends_pulse", "bool", "", "asserting clear ends a pulse in progress"),
+    _v("clear_triggers_on_release", "bool", "", "releasing clear can fire a pulse"),
+    _v("power_up", "text", "", "published power-up behaviour"),
+    # interface
+    _v("inputs", "text", "", "ttl or cmos input levels"),
+    _v("vih", "number", "V", "minimum high input level at this supply"),
+    _v("vil", "number", "V", "maximum low input level at this supply"),
+    _v("input_clamp", "bool", "", "inputs clamp to VCC (no over-voltage tolerance)"),
+    _v("output_source", "number", "A", "published output source current"),
+    _v("output_sink", "number", "A", "published output sink current"),
+    # package
+    _v("package", "text", "", "default package name"),
+    _v("pin_count", "number", "", "pins of the default package"),
+)
+
+#: Names at the top level of the context (swap comparisons).
+TOP_VOCABULARY: tuple[Var, ...] = (
+    _v("swap", "bool", "", "true when an old part is being replaced"),
+    _v("same_pinout", "bool", "", "default packages match pin for pin (function and section)"),
+    _v("pins_differ", "number", "", "pins whose function or section differs"),
+    _v("pin_count_changed", "bool", "", "the default packages have different pin counts"),
+    _v("supply_changed", "bool", "", "old and new supplies differ"),
+    _v("c_kept", "bool", "", "the new circuit keeps the old timing capacitor"),
+    _v("width_change", "number", "", "new.width / old.width - 1"),
+    _v("frequency_change", "number", "", "new.frequency / old.frequency - 1"),
+)
+
+PART_FIELDS: dict[str, Var] = {v.name: v for v in PART_VOCABULARY}
+TOP_FIELDS: dict[str, Var] = {v.name: v for v in TOP_VOCABULARY}
+ROLES = ("new", "old")
+
+
+def vocabulary(scope: str) -> dict[str, Var]:
+    """Every name a rule of this scope may read: ``part`` or ``swap``."""
+    out: dict[str, Var] = dict(TOP_FIELDS)
+    prefixes = ("part",) if scope == "part" else ROLES
+    for p in prefixes:
+        for v in PART_VOCABULARY:
+            out[f"{p}.{v.name}"] = v
+    return out
+
+
+_CMOS = {"cmos-555", "cmos-4000", "hc", "hct", "ac", "ahc", "ahct", "vhc", "lv", "lvc"}
+_BIPOLAR = {"bipolar", "ttl", "ls", "als"}
+#: The law's main constant, by law (and 555 mode).
+_MAIN_CONSTANT = {"krc": "k", "ln-supply": "a", "cd4541": "k_osc"}
+
+
+def _pick(values: list[Sourced], vcc: float | None, c: float | None, strict: str) -> float | None:
+    """The strictest value that applies: the largest minimum or the smallest maximum."""
+    ok = [v.value for v in values if v.applies(vcc, c)]
+    if not ok:
+        return None
+    return max(ok) if strict == "max" else min(ok)
+
+
+def _one(value: Sourced | None, vcc: float | None = None, c: float | None = None) -> float | None:
+    if value is None or not value.applies(vcc, c):
+        return None
+    return value.value
+
+
+def _level(abs_: Sourced | None, frac: Sourced | None, vcc: float | None, ttl_default: float | None) -> float | None:
+    if abs_ is not None and vcc is not None and abs_.applies(vcc):
+        return abs_.value
+    if frac is not None and vcc is not None and frac.applies(vcc):
+        return frac.value * vcc
+    if ttl_default is not None:
+        return ttl_default
+    if abs_ is not None and vcc is None:
+        return abs_.value
+    return None
+
+
+def _num(d: dict | None, key: str) -> float | None:
+    if not isinstance(d, dict):
+        return None
+    v = d.get(key)
+    return float(v) if isinstance(v, (int, float)) and not isinstance(v, bool) else None
+
+
+def _extreme(t: dict, key: str, fn) -> float | None:
+    vals = [x for x in (_num(t.get(b), key) for b in ("nominal", "min", "max")) if x is not None]
+    return fn(vals) if vals else None
+
+
+def part_values(family: Family, circuit: Circuit | None, timing: dict | None = None) -> dict[str, object]:
+    """The :data:`PART_VOCABULARY` fields for one part in one circuit (plain values)."""
+    timing = timing if isinstance(timing, dict) else {}
+    used = timing.get("values") if isinstance(timing.get("values"), dict) else {}
+    circ = circuit
+
+    def val(name: str) -> float | None:
+        v = _num(used, name)
+        if v is None and circ is not None:
+            cv = getattr(circ, name, None)
+            v = float(cv) if isinstance(cv, (int, float)) else None
+        return v
+
+    vcc = val("vcc")
+    r, ra, rb, c, pot, setting = val("r"), val("ra"), val("rb"), val("c"), val("pot"), val("pot_setting")
+    mode = (circ.mode if circ is not None else None) or timing.get("mode")
+    if mode not in ("mono", "astable"):
+        mode = "astable" if rb is not None else "mono"
+    pot_v = pot or 0.0
+    is_555 = family.function == "timer-555"
+
+    r_total_min = r_total_max = r_setting = r_dis = None
+    if mode == "astable" and (ra is not None or rb is not None):
+        base = (ra or 0.0) + (rb or 0.0)
+        r_total_min, r_total_max = base, base + pot_v
+        r_dis = ra if ra is not None else 0.0
+        if setting is not None:
+            r_setting = base + pot_v * setting
+    else:
+        main = r if r is not None else ra
+        if main is not None or pot is not None:
+            base = main or 0.0
+            r_total_min, r_total_max = base, base + pot_v
+            r_dis = r_total_min
+            if setting is not None:
+                r_setting = base + pot_v * setting
+
+    comp, tim, beh, itf = family.components, family.timing, family.behaviour, family.interface
+    cname = _MAIN_CONSTANT.get(tim.law)
+    if tim.law == "timer-555":
+        cname = "astable_k" if mode == "astable" else "mono_k"
+    elif tim.law == "cd4047":
+        cname = "k_astable" if mode == "astable" else "k_mono"
+    ks = [v.value for v in family.constant(cname, vcc, c)] if cname else []
+
+    t = timing.get("timing") if isinstance(timing.get("timing"), dict) else {}
+    nominal = t.get("nominal") if isinstance(t.get("nominal"), dict) else {}
+    trig = timing.get("trigger") if isinstance(timing.get("trigger"), dict) else {}
+    width = _num(nominal, "width")
+    ctrig = circ.trigger if circ is not None else None
+    trigger_period = (ctrig.period if ctrig is not None else None) or _num(trig, "period")
+    edge = ctrig.edge if ctrig is not None else None
+
+    ttl = itf.inputs == "ttl"
+    vih = _level(itf.vih, itf.vih_fraction, vcc, 2.0 if ttl else None)
+    vil = _level(itf.vil, itf.vil_fraction, vcc, 0.8 if ttl else None)
+
+    # The input a trigger edge must reach: an edge input of that sense, else a level input.
+    accepts = edge_in = None
+    if edge is not None:
+        wanted = ("rising", "level-high") if edge == "rising" else ("falling", "level-low")
+        cands = sorted((tr for tr in beh.triggers if tr.edge in wanted), key=lambda tr: wanted.index(tr.edge))
+        edge_in = cands[0] if cands else None
+        accepts = edge_in is not None
+    pkg = family.packages[0] if family.packages else None
+    pin = None
+    enable = None
+    if edge_in is not None:
+        if pkg is not None:
+            pins = pkg.by_function(1 if family.channels > 1 else None).get(edge_in.function)
+            pin = float(pins[0]) if pins else None
+        names = {tr.function: tr.name for tr in beh.triggers}
+        if beh.clear is not None:
+            names["CLEAR"] = beh.clear.name
+            names["RESET"] = beh.clear.name
+        enable = ", ".join(f"{names.get(f, f)} {lvl}" for f, lvl in edge_in.enable.items()) or None
+
+    drive_src = itf.output_source_ma.value * 1e-3 if itf.output_source_ma is not None else None
+    drive_snk = itf.output_sink_ma.value * 1e-3 if itf.output_sink_ma is not None else None
+    divide_by = _num(trig, "divide_by")
+    stays = trig.get("stays_high") if isinstance(trig.get("stays_high"), bool) else None
+    calib = timing.get("calibration") if isinstance(timing.get("calibration"), dict) else None
+
+    out: dict[str, object] = {
+        "id": family.id,
+        "function": family.function,
+        "technology": family.technology,
+        "status": family.status,
+        "channels": float(family.channels),
+        "is_555": is_555,
+        "cmos": family.technology in _CMOS,
+        "bipolar": family.technology in _BIPOLAR,
+        "ttl_inputs": ttl,
+        "vcc": vcc,
+        "supply_min": family.supply.recommended.min,
+        "supply_max": family.supply.recommended.max,
+        "abs_max": family.supply.absolute_max.value,
+        "mode": mode,
+        "r": r if mode == "mono" else ra,
+        "ra": ra,
+        "rb": rb,
+        "pot": pot,
+        "pot_setting": setting,
+        "has_pot": bool(pot),
+        "c": c,
+        "r_total_min": r_total_min,
+        "r_total_max": r_total_max,
+        "r_setting": r_setting,
+        "r_discharge_min": r_dis,
+        "r_min": _pick(comp.r_min, vcc, c, "max"),
+        "r_max": _pick(comp.r_max, vcc, c, "min"),
+        "c_min": _pick(comp.c_min, vcc, None, "max"),
+        "c_max": _pick(comp.c_max, vcc, None, "min"),
+        "c_linear_min": _one(tim.c_linear_min, vcc),
+        "f_max": _one(tim.f_max, vcc),
+        "limit_width_min": _one(tim.width_min, vcc),
+        "limit_width_max": _one(tim.width_max, vcc),
+        "r_internal": tim.r_internal.value if tim.r_internal is not None else None,
+        "has_r_internal": tim.r_internal is not None,
+        "electrolytic": comp.electrolytic,
+        "has_electrolytic_note": comp.electrolytic is not None,
+        "k": ks[0] if ks else None,
+        "k_min": min(ks) if ks else None,
+        "k_max": max(ks) if ks else None,
+        "k_spread": (max(ks) / min(ks) - 1.0) if ks and min(ks) > 0 else None,
+        "k_sources": float(len(ks)),
+        "width": width,
+        "width_min": _extreme(t, "width", min),
+        "width_max": _extreme(t, "width", max),
+        "period": _num(nominal, "period"),
+        "frequency": _num(nominal, "frequency"),
+        "frequency_max": _extreme(t, "frequency", max),
+        "high": _num(nominal, "high"),
+        "low": _num(nominal, "low"),
+        "duty": _num(nominal, "duty"),
+        "calibration_factor": _num(calib, "factor"),
+        "trigger_period": trigger_period,
+        "trigger_edge": edge,
+        "trigger_high": ctrig.high if ctrig is not None else None,
+        "pulse_duty": (width / trigger_period) if width is not None and trigger_period else None,
+        "divide_by": divide_by,
+        "stays_high": stays,
+        "retrigger": beh.retrigger,
+        "accepts_edge": accepts,
+        "edge_input": edge_in.name if edge_in is not None else None,
+        "edge_input_pin": pin,
+        "edge_input_schmitt": edge_in.schmitt if edge_in is not None else None,
+        "edge_input_enable": enable,
+        "any_non_schmitt": any(not tr.schmitt for tr in beh.triggers) if beh.triggers else None,
+        "has_clear": beh.clear is not None,
+        "clear_name": beh.clear.name if beh.clear else None,
+        "clear_active": beh.clear.active if beh.clear else None,
+        "clear_ends_pulse": beh.clear.ends_pulse if beh.clear else None,
+        "clear_triggers_on_release": beh.clear.triggers_on_release if beh.clear else None,
+        "power_up": beh.power_up,
+        "inputs": itf.inputs,
+        "vih": vih,
+        "vil": vil,
+        "input_clamp": itf.input_clamp_to_vcc,
+        "output_source": drive_src,
+        "output_sink": drive_snk,
+        "package": pkg.name if pkg else None,
+        "pin_count": float(max((p.pin for p in pkg.pins), default=0)) if pkg else None,
+    }
+    return out
+
+
+def _pinout(family: Family) -> dict[int, tuple[str, int | None]] | None:
+    if not family.packages:
+        return None
+    return {p.pin: (p.function, p.channel) for p in family.packages[0].pins}
+
+
+def _ratio(a: object, b: object) -> float | None:
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)) and b:
+        return a / b - 1.0
+    return None
+
+
+def build_context(
+    new: Family,
+    circuit: Circuit | None,
+    timing: dict | None,
+    *,
+    old: Family | None = None,
+    old_circuit: Circuit | None = None,
+    old_timing: dict | None = None,
+) -> dict[str, object]:
+    """The flat context for :func:`advisor.rules.evaluate` (see the module docstring).
+
+    ``timing``/``old_timing`` are ``TimingResult.to_json()`` dicts (or None).
+    In a swap, ``old_circuit`` defaults to ``circuit``.
+    """
+    ctx: dict[str, object] = {v.name: None for v in TOP_VOCABULARY}
+    for role in ROLES:
+        for v in PART_VOCABULARY:
+            ctx[f"{role}.{v.name}"] = None
+    for k, v in part_values(new, circuit, timing).items():
+        ctx[f"new.{k}"] = v
+    ctx["swap"] = old is not None
+    if old is not None:
+        ov = part_values(old, old_circuit if old_circuit is not None else circuit, old_timing)
+        for k, v in ov.items():
+            ctx[f"old.{k}"] = v
+        a, b = _pinout(old), _pinout(new)
+        if a is not None and b is not None:
+            differ = sum(1 for pin in set(a) | set(b) if a.get(pin) != b.get(pin))
+            ctx["pins_differ"] = float(differ)
+            ctx["same_pinout"] = differ == 0
+            ctx["pin_count_changed"] = ctx["old.pin_count"] != ctx["new.pin_count"]
+        if ctx["old.vcc"] is not None and ctx["new.vcc"] is not None:
+            ctx["supply_changed"] = abs(ctx["old.vcc"] - ctx["new.vcc"]) > 1e-9  # type: ignore[operator]
+        if ctx["old.c"] is not None and ctx["new.c"] is not None:
+            ctx["c_kept"] = abs(ctx["old.c"] / ctx["new.c"] - 1.0) < 1e-9  # type: ignore[operator]
+        ctx["width_change"] = _ratio(ctx["new.width"], ctx["old.width"])
+        ctx["frequency_change"] = _ratio(ctx["new.frequency"], ctx["old.frequency"])
+    return ctx

@@ -1,0 +1,199 @@
+"""Load and check the rule files (``rules/*.yaml``).
+
+Every rule is validated against the grammar (:mod:`advisor.rules.model`), its
+condition and templates are compiled by the safe evaluator against the context
+vocabulary of its scope (unknown names, dunder names, imports, attribute
+chains and huge exponents are refused here, at load time), and its cases are
+checked to use only known names with values of the right kind. Problems are
+collected, not stopped at, and each names its place:
+``rules/supply.yaml: rule supply-above-abs-max: condition: unknown name 'part.vc'``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+from pathlib import Path
+
+import yaml
+
+from advisor.errors import DataError
+from advisor.resources import data_dir, user_dirs
+from advisor.rules.context import Var, vocabulary
+from advisor.rules.engine import CompiledRule, RuleSet
+from advisor.rules.safe_expr import ExprError, compile_expr
+from advisor.rules.template import compile_template
+
+try:  # the C loader is much faster; fall back when libyaml is absent
+    _Loader = yaml.CSafeLoader
+except AttributeError:  # pragma: no cover
+    _Loader = yaml.SafeLoader
+
+_VOCAB: dict[str, dict[str, Var]] = {s: vocabulary(s) for s in ("part", "swap")}
+
+
+@dataclass(frozen=True)
+class RuleProblem:
+    file: str
+    rule: str | None
+    key: str
+    message: str
+
+    def __str__(self) -> str:
+        where = self.file
+        if self.rule:
+            where += f": rule {self.rule}"
+        if self.key:
+            where += f": {self.key}"
+        return f"{where}: {self.message}"
+
+
+def _loc(loc: tuple) -> str:
+    out = ""
+    for part in loc:
+        if isinstance(part, int):
+            out += f"[{part}]"
+        else:
+            out += f".{part}" if out else str(part)
+    return out
+
+
+def _short(value: object) -> str:
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+_KIND_TYPES = {"number": (int, float), "bool": (bool,), "text": (str,)}
+
+
+def _case_problems(vocab: dict[str, Var], case: dict, key: str) -> list[tuple[str, str]]:
+    out = []
+    for name, value in case.items():
+        var = vocab.get(name)
+        if var is None:
+            out.append((f"{key}.{name}", "unknown name (not in the context vocabulary for this scope)"))
+            continue
+        if value is None:
+            continue
+        ok = isinstance(value, _KIND_TYPES[var.kind]) and not (var.kind == "number" and isinstance(value, bool))
+        if not ok:
+            out.append((f"{key}.{name}", f"expected a {var.kind}, got {_short(value)}"))
+    return out
+
+
+def compile_rule(data: object, file: str, topic: str, index: int) -> tuple[CompiledRule | None, list[RuleProblem]]:
+    """Validate and compile one rule entry; return it or its located problems."""
+    from pydantic import ValidationError
+
+    from advisor.rules.model import Rule
+
+    label = data.get("id") if isinstance(data, dict) and isinstance(data.get("id"), str) else f"#{index + 1}"
+    if not isinstance(data, dict):
+        return None, [RuleProblem(file, label, "", f"expected a mapping of rule fields, got {_short(data)}")]
+    try:
+        rule = Rule.model_validate(data)
+    except ValidationError as exc:
+        probs = []
+        for err in exc.errors():
+            msg = err["msg"]
+            if err["type"] == "extra_forbidden":
+                msg = "unknown key (not in the rule grammar; see rules/README.md)"
+            elif "input" in err and err["type"] != "missing":
+                msg = f"{msg}, got {_short(err['input'])}"
+            probs.append(RuleProblem(file, label, _loc(err["loc"]), msg))
+        return None, probs
+    vocab = _VOCAB[rule.applies_to.scope]
+    known = vocab.__contains__
+    problems: list[RuleProblem] = []
+    compiled = {}
+    for key in ("condition", "message", "fix"):
+        try:
+            text = getattr(rule, key)
+            compiled[key] = compile_expr(text, known) if key == "condition" else compile_template(text, known)
+        except ExprError as exc:
+            problems.append(RuleProblem(file, rule.id, key, str(exc)))
+    if rule.applies_to.scope == "swap" and rule.applies_to.parts != ["new"]:
+        problems.append(RuleProblem(file, rule.id, "applies_to.parts", "only part rules name parts; swap rules see old.* and new.*"))
+    for kind in ("fire", "no_fire"):
+        for i, case in enumerate(getattr(rule.cases, kind)):
+            for key, msg in _case_problems(vocab, case, f"cases.{kind}[{i}]"):
+                problems.append(RuleProblem(file, rule.id, key, msg))
+    if problems:
+        return None, problems
+    return CompiledRule(rule, file, topic, compiled["condition"], compiled["message"], compiled["fix"]), []
+
+
+def load_file(path: Path, label: str) -> tuple[list[CompiledRule], list[RuleProblem]]:
+    from pydantic import ValidationError
+
+    from advisor.rules.model import RuleFile
+
+    try:
+        data = yaml.load(path.read_text(encoding="utf-8"), Loader=_Loader)
+    except yaml.YAMLError as exc:
+        mark = getattr(exc, "problem_mark", None)
+        where = f"line {mark.line + 1}" if mark else ""
+        return [], [RuleProblem(label, None, where, f"not valid YAML: {getattr(exc, 'problem', exc)}")]
+    except (OSError, UnicodeDecodeError) as exc:
+        return [], [RuleProblem(label, None, "", f"cannot read: {exc}")]
+    try:
+        rf = RuleFile.model_validate(data)
+    except ValidationError as exc:
+        probs = []
+        for err in exc.errors():
+            msg = "unknown key (a rules file has 'topic' and 'rules')" if err["type"] == "extra_forbidden" else err["msg"]
+            probs.append(RuleProblem(label, None, _loc(err["loc"]), msg))
+        return [], probs
+    rules, problems = [], []
+    for i, entry in enumerate(rf.rules):
+        rule, probs = compile_rule(entry, label, rf.topic, i)
+        problems.extend(probs)
+        if rule is not None:
+            rules.append(rule)
+    return rules, problems
+
+
+def load_dirs(dirs: list[Path]) -> RuleSet:
+    """Load every ``*.yaml`` in ``dirs``; later folders override earlier rules by id."""
+    rs = RuleSet()
+    where: dict[str, str] = {}
+    index: dict[str, int] = {}
+    for n, d in enumerate(dirs):
+        for path in sorted(Path(d).glob("*.yaml")):
+            if path.name.startswith("_"):
+                continue
+            label = f"rules/{path.name}" if n == 0 else str(path)
+            rules, problems = load_file(path, label)
+            rs.problems.extend(problems)
+            for rule in rules:
+                if rule.id in index:
+                    same_origin = where[rule.id].startswith("rules/") == label.startswith("rules/")
+                    if same_origin:
+                        rs.problems.append(RuleProblem(label, rule.id, "id", f"rule id also defined in {where[rule.id]}"))
+                        continue
+                    rs.rules[index[rule.id]] = rule  # a user folder overrides a shipped rule
+                else:
+                    index[rule.id] = len(rs.rules)
+                    rs.rules.append(rule)
+                where[rule.id] = label
+    return rs
+
+
+@lru_cache(maxsize=4)
+def load_rules(extra_dirs: tuple[str, ...] = ()) -> RuleSet:
+    """The shipped rules plus ``RETIME_RULES`` / user folders and ``extra_dirs``."""
+    dirs = [data_dir("rules"), *user_dirs("rules"), *(Path(e) for e in extra_dirs)]
+    return load_dirs(dirs)
+
+
+def require_clean(rs: RuleSet) -> RuleSet:
+    """Raise DataError naming the first problem."""
+    if rs.problems:
+        first = rs.problems[0]
+        more = f" (and {len(rs.problems) - 1} more; run 'retime rules --check')" if len(rs.problems) > 1 else ""
+        raise DataError(str(first) + more)
+    return rs
+
+
+def load_rules_checked(extra_dirs: tuple[str, ...] = ()) -> RuleSet:
+    return require_clean(load_rules(tuple(extra_dirs)))

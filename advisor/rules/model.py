@@ -1,0 +1,75 @@
+"""The rule grammar: pydantic models for one entry of ``rules/*.yaml``.
+
+Frozen and strict about unknown keys, like the catalog grammar
+(:mod:`advisor.parts`), so a misspelt key is a located error, not a silently
+ignored setting. The grammar is summarised for contributors in
+``rules/README.md``.
+"""
+
+from __future__ import annotations
+
+from typing import Literal, Union
+
+from pydantic import BaseModel, ConfigDict, Field, StrictBool, StrictFloat, StrictInt, StrictStr
+
+from advisor.parts import Function, Technology
+
+Severity = Literal["danger", "warning", "note"]
+Scope = Literal["part", "swap"]
+Role = Literal["new", "old"]
+Scalar = Union[StrictBool, StrictInt, StrictFloat, StrictStr, None]
+
+RULE_ID = r"^[a-z0-9][a-z0-9-]{1,62}$"
+
+
+class _Frozen(BaseModel):
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+
+class AppliesTo(_Frozen):
+    """Where a rule applies.
+
+    ``scope: part`` rules read ``part.*`` and run once for every part named in
+    ``parts`` that the context has (``new`` in a check; ``new`` and/or ``old``
+    in a swap). ``scope: swap`` rules read ``old.*`` and ``new.*`` and run only
+    in a swap. ``function``/``technology``/``family`` narrow the rule to parts
+    (the subject part, or the new part of a swap) that match any listed value;
+    an empty list matches all.
+    """
+
+    scope: Scope = "part"
+    parts: list[Role] = Field(default_factory=lambda: ["new"], min_length=1)
+    function: list[Function] = Field(default_factory=list)
+    technology: list[Technology] = Field(default_factory=list)
+    family: list[str] = Field(default_factory=list)
+
+
+class Cases(_Frozen):
+    """Example inputs as plain data: each case maps context names to values.
+
+    Names not given are missing (None). Every rule has at least one case that
+    must fire and one that must not; one parametrised test runs them all.
+    """
+
+    fire: list[dict[str, Scalar]] = Field(min_length=1)
+    no_fire: list[dict[str, Scalar]] = Field(min_length=1)
+
+
+class Rule(_Frozen):
+    id: str = Field(pattern=RULE_ID)
+    title: str = Field(min_length=3, max_length=120)
+    applies_to: AppliesTo = Field(default_factory=AppliesTo)
+    condition: str = Field(min_length=1)
+    severity: Severity
+    message: str = Field(min_length=3)
+    fix: str = Field(min_length=3)
+    source: str = Field(min_length=3)
+    cases: Cases
+    note: str | None = None
+
+
+class RuleFile(_Frozen):
+    """One ``rules/<topic>.yaml``: a topic line and its rules (validated one by one)."""
+
+    topic: str
+    rules: list[dict] = Field(min_length=1)

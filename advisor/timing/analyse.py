@@ -1,0 +1,89 @@
+"""``analyse``: the timing of an existing circuit, with band, adjustment, target,
+calibration, trigger verdict and law-validity findings."""
+
+from __future__ import annotations
+
+from advisor.circuit import Circuit
+from advisor.parts import Family
+from advisor.timing.adjust import judge_target, travel_ends
+from advisor.timing.band import band
+from advisor.timing.calibrate import calibrate, scale
+from advisor.timing.model import Model, build
+from advisor.timing.result import TimingResult
+from advisor.timing.trigger import analyse_trigger
+from advisor.timing.validity import check_model
+
+
+def network_values(model: Model) -> dict:
+    """The network actually used (Ω, F, V); keys present for every mode."""
+    p = model.params
+    return {
+        "r": p.get("r") if "r" in p else None,
+        "ra": p.get("ra"),
+        "rb": p.get("rb"),
+        "c": p["c"],
+        "pot": model.pot,
+        "pot_setting": model.pot_setting,
+        "vcc": p["vcc"],
+        "cont": model.cont,
+        "r_internal": model.r_internal,
+    }
+
+
+def tolerances(circuit: Circuit) -> dict:
+    return {"r_tol": circuit.r_tolerance, "c_tol": circuit.c_tolerance, "defaulted": circuit.tolerances_defaulted}
+
+
+def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, seed: int | None = 1) -> TimingResult:
+    """Timing of ``circuit`` on ``family`` (see the module docstring of advisor.timing).
+
+    ``samples`` runs a Monte Carlo of that many draws (numpy); it also runs, with
+    100 000 draws, when the target carries a window (``--range``).
+    """
+    model = build(family, circuit)
+    nominal = model.times()
+    lows, highs = band(model)
+    cal = None
+    factor = 1.0
+    if circuit.measured is not None:
+        cal = calibrate(model.mode, nominal, circuit.measured)
+        factor = cal.factor
+    findings = check_model(model, nominal)
+    timing = {"nominal": scale(nominal, factor), "min": scale(lows, factor), "max": scale(highs, factor)}
+    adjust = None
+    if model.pot:
+        lo, hi = travel_ends(model, factor)
+        adjust = {"min": lo, "max": hi, "pot": model.pot}
+    target = None
+    if circuit.target is not None:
+        target = judge_target(model, circuit.target, timing["nominal"], timing["min"], timing["max"], factor)
+    trig = None
+    if circuit.trigger.period is not None:
+        w = timing["nominal"].get("width")
+        trig, tf = analyse_trigger(
+            family, model.mode, circuit.trigger.period, w, timing["min"].get("width"), timing["max"].get("width"),
+        )
+        findings.extend(tf)
+    dist = None
+    window = circuit.target.range if circuit.target is not None else None
+    if samples or window is not None:
+        from advisor.timing.adjust import target_quantity
+        from advisor.timing.montecarlo import simulate
+
+        q = target_quantity(model, circuit.target) if window is not None else None
+        dist = simulate(model, samples or 100_000, window=window, quantity=q, scale=factor, seed=seed)
+    return TimingResult(
+        part=family.id, mode=model.mode, law=model.law, values=network_values(model), timing=timing,
+        adjust=adjust, target=target, calibration=cal, trigger=trig, findings=findings,
+        constants=dict(model.constants), tolerances=tolerances(circuit), assumptions=list(model.assumptions),
+        distribution=dist,
+    )
+
+
+def predict_nominal(family: Family, circuit: Circuit) -> dict:
+    """Nominal timing only (fast; calibrated when a measurement is given)."""
+    model = build(family, circuit)
+    nominal = model.times()
+    if circuit.measured is not None:
+        nominal = scale(nominal, calibrate(model.mode, nominal, circuit.measured).factor)
+    return nominal

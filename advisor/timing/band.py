@@ -1,0 +1,42 @@
+"""Worst-case band: the law evaluated at every corner of its inputs' intervals.
+
+Each input with a range (resistors ± their tolerance, capacitor ± its tolerance,
+the spread of published constants, the part-to-part spread) takes its low or high
+end; the band is the lowest and highest value of every output over all corners.
+The RC laws are monotonic in each input, so the corners bound the whole box
+(common practice for worst-case analysis). With n ranged inputs there are 2^n
+corners; n is at most eight here, so the cost stays under a millisecond.
+"""
+
+from __future__ import annotations
+
+from itertools import product
+
+from advisor.timing.model import Model
+
+
+def band(model: Model, params: dict | None = None) -> tuple[dict, dict]:
+    """(min, max) dicts over the corners, with the same keys as ``model.times``."""
+    base = dict(model.params if params is None else params)
+    names = [k for k, (lo, hi) in model.ranges.items() if hi != lo]
+    lows: dict[str, float] = {}
+    highs: dict[str, float] = {}
+    for corner in product((0, 1), repeat=len(names)):
+        p = dict(base)
+        for name, end in zip(names, corner):
+            p[name] = model.ranges[name][end] if params is None else _scaled(model, name, end, base)
+        for key, value in model.times(p).items():
+            if key not in lows or value < lows[key]:
+                lows[key] = value
+            if key not in highs or value > highs[key]:
+                highs[key] = value
+    return lows, highs
+
+
+def _scaled(model: Model, name: str, end: int, base: dict) -> float:
+    """The range end of ``name`` moved along with a changed nominal (tolerances are relative)."""
+    lo, hi = model.ranges[name]
+    if model.tolerance_kind.get(name) in ("r", "c"):
+        nom = model.params[name]
+        return base[name] * (lo if end == 0 else hi) / nom if nom else base[name]
+    return lo if end == 0 else hi

@@ -1,0 +1,280 @@
+"""Inverse design: standard-value networks for a target width, period or frequency.
+
+For each candidate capacitor (the existing one first when it can work) the ideal
+resistance is solved from the law (every law here is affine in the timing
+resistance, so two evaluations give it exactly), rounded to the neighbouring
+values of the chosen IEC 60063 series inside the part's resistor limits, and
+evaluated with its worst-case band. With an adjustment range (``--range``) or a
+given variable resistor the network is a fixed resistor plus a variable one; the
+fixed part never goes below the part's minimum timing resistance, and the ranges
+are chosen so the travel covers the window on any board within tolerance when
+the limits allow it.
+
+Capacitors are taken from E6 (common practice: film and C0G parts are stocked in
+E6/E12); variable resistors from the 1-2-5 sequence trimmers are sold in (common
+practice).
+"""
+
+from __future__ import annotations
+
+import math
+
+from advisor import eseries
+from advisor.circuit import Circuit, Target
+from advisor.errors import InputError
+from advisor.findings import Finding
+from advisor.parts import Family
+from advisor.timing.adjust import setting_for, target_quantity, travel_ends
+from advisor.timing.analyse import network_values, tolerances
+from advisor.timing.band import band
+from advisor.timing.constants import limit
+from advisor.timing.model import build, default_vcc, resolve_mode
+from advisor.timing.result import Candidate, DesignResult
+from advisor.timing.validity import check_model
+from advisor.values import format_eng
+
+#: Trimmer values (Ω), 1-2-5 sequence (common practice).
+POT_VALUES = tuple(m * 10.0 ** e for e in range(2, 7) for m in (1, 2, 5)) + (1e7,)
+#: Where resistor limits are not published (common practice: 1 kΩ keeps discharge
+#: currents sensible, 10 MΩ keeps leakage small against the timing current).
+R_FLOOR, R_CEIL = 1e3, 1e7
+#: Comfortable middle of the resistor range for choosing a new capacitor (common
+#: practice; the NE555 accuracy figures hold for 1–100 kΩ, TI SLFS022).
+R_COMFORT = 33e3
+
+
+def _r_limits(family: Family, vcc: float) -> tuple[float, float]:
+    rmin = limit(family.components.r_min, vcc, lowest=False)
+    rmax = limit(family.components.r_max, vcc, lowest=True)
+    lo = rmin.value if rmin is not None and rmin.value > 0 else R_FLOOR
+    hi = rmax.value if rmax is not None else R_CEIL
+    return lo, hi
+
+
+def _c_limits(family: Family, vcc: float) -> tuple[float, float]:
+    cmin = limit(family.components.c_min, vcc, lowest=False)
+    cmax = limit(family.components.c_max, vcc, lowest=True)
+    lo = max(cmin.value if cmin is not None else 0.0, 100e-12)
+    lin = family.timing.c_linear_min
+    if lin is not None:
+        lo = max(lo, lin.value)
+    hi = cmax.value if cmax is not None else 1e-3
+    return lo, min(hi, 1e-3)
+
+
+def _time_goal(mode: str, target: Target) -> tuple[str, float, tuple[float, float] | None]:
+    """The time quantity to solve for, its value, and the window (s)."""
+    if target.kind == "freq":
+        return "period", 1.0 / target.value, target.range
+    if target.kind == "period":
+        return "period", target.value, target.range
+    return ("width" if mode == "mono" else "high"), target.value, target.range
+
+
+def _affine(evaluate, lo: float = 1e3, hi: float = 2e3) -> tuple[float, float]:
+    """Slope and intercept of t(R) from two evaluations (the laws are affine in R)."""
+    t1, t2 = evaluate(lo), evaluate(hi)
+    m = (t2 - t1) / (hi - lo)
+    return m, t1 - m * lo
+
+
+def _solve(evaluate, t: float) -> float:
+    m, b = _affine(evaluate)
+    return (t - b) / m if m > 0 else math.inf
+
+
+def design(
+    family: Family, circuit: Circuit, *, series: str = "E24", keep_c: bool = True, limit: int = 5,
+) -> DesignResult:
+    """Candidates (best first) for ``circuit.target`` on ``family``; see the module docstring."""
+    target = circuit.target
+    if target is None:
+        raise InputError("design needs a target: --width, --period or --freq (or --range)")
+    eseries.mantissas(series)  # validates the series name
+    if circuit.mode is None and target.kind in ("period", "freq") and family.function in ("timer-555", "monostable-astable"):
+        circuit = circuit.with_(mode="astable")
+    mode = resolve_mode(family, circuit)
+    vcc = circuit.vcc if circuit.vcc is not None else default_vcc(family)
+    assumptions = [] if circuit.vcc is not None else [f"supply {vcc:g} V (not given)"]
+    probe = build(family, circuit.with_(vcc=vcc), need_network=False)
+    target_quantity(probe, target)  # raises for a target the mode cannot have
+    q, t_goal, window = _time_goal(mode, target)
+    r_lo, r_hi = _r_limits(family, vcc)
+    c_lo, c_hi = _c_limits(family, vcc)
+    base = circuit.with_(vcc=vcc, r=None, ra=None, rb=None, measured=None, trigger=circuit.trigger)
+    variable = window is not None or circuit.pot is not None
+
+    findings: list[Finding] = []
+    astable555 = mode == "astable" and family.timing.law == "timer-555"
+    if astable555 and target.duty is not None and target.duty <= 0.5:
+        findings.append(Finding(
+            "design-duty-unreachable", "warning",
+            f"a 555 astable without a diode cannot run at {target.duty:.0%} duty (its high time includes RB's)",
+            "put a diode across RB, or invert the output", "Diodes NE555 DS35112 rev 4 (tH = ln2·(RA+RB)·C)", family.id,
+        ))
+
+    cands: list[Candidate] = []
+    c_choices = _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555)
+    kept = None
+    if keep_c and circuit.c is not None:
+        kept = circuit.c
+        c_choices = [kept] + [c for c in c_choices if abs(c / kept - 1) > 1e-9]
+    for c in c_choices:
+        nets = _networks(family, base.with_(c=c), q, t_goal, window, series, r_lo, r_hi, astable555, variable)
+        if not nets and c == kept:
+            assumptions.append(f"the existing {format_eng(kept, 'F')} needs a resistance outside "
+                               f"{format_eng(r_lo, 'Ω')}..{format_eng(r_hi, 'Ω')}: other capacitors proposed")
+        for net in nets:
+            cands.append(_candidate(family, base.with_(c=c, **net), target, c == kept))
+        if len(cands) >= 4 * limit:
+            break
+    if not cands:
+        raise InputError(
+            f"no standard-value network for the {family.id} reaches {format_eng(t_goal, 's')} within "
+            f"R {format_eng(r_lo, 'Ω')}..{format_eng(r_hi, 'Ω')} and C {format_eng(c_lo, 'F')}..{format_eng(c_hi, 'F')}",
+            hint="try another part or a counter-based timer",
+        )
+    cands.sort(key=lambda cd: (not cd.kept_c, not _covers(cd, window), abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0)))
+    seen, unique = set(), []
+    for cd in cands:
+        key = tuple(sorted((k, v) for k, v in cd.values.items() if isinstance(v, float)))
+        if key not in seen:
+            seen.add(key)
+            unique.append(cd)
+    tjson = {"kind": target.kind, "value": target.value, "duty": target.duty}
+    if window is not None:
+        tjson["range"] = {"min": window[0], "max": window[1]}
+    return DesignResult(family.id, mode, tjson, eseries._name(series), unique[:limit], findings, assumptions, tolerances(circuit))
+
+
+def _covers(cd: Candidate, window) -> bool:
+    return window is None or cd.setting is not None
+
+
+def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555) -> list[float]:
+    """E6 capacitors whose ideal resistance lies inside the limits, nearest R_COMFORT first."""
+    out = []
+    centre = min(max(R_COMFORT, r_lo * 3), r_hi / 3)
+    for c in eseries.values_between("E6", c_lo, c_hi):
+        model = build(family, base.with_(c=c, r=1e3, ra=1e3, rb=1e3), need_network=False)
+        if astable555:
+            r = _solve(lambda x: model.times(model.at(ra=x / 10, rb=x))[q], t_goal)
+        else:
+            r = _solve(lambda x: model.times(model.at(r=x, rp=0.0))[q], t_goal)
+        if r_lo <= r <= r_hi:
+            out.append((abs(math.log(r / centre)), c))
+    out.sort()
+    return [c for _, c in out[:8]]
+
+
+def _networks(family, circuit, q, t_goal, window, series, r_lo, r_hi, astable555, variable) -> list[dict]:
+    """Resistor networks (dicts of Circuit fields) for one capacitor."""
+    model = build(family, circuit.with_(r=1e3, ra=1e3, rb=1e3, pot=None, pot_setting=None), need_network=False)
+    if astable555:
+        return _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable)
+    ev = lambda x: model.times(model.at(r=x, rp=0.0))[q]  # noqa: E731
+    if not variable:
+        ideal = _solve(ev, t_goal)
+        if not r_lo <= ideal <= r_hi:
+            return []
+        vals = {eseries.next_down(series, ideal * 1.0000001), eseries.next_up(series, ideal * 0.9999999), eseries.nearest(series, ideal)}
+        return [{"r": v} for v in sorted(vals) if r_lo <= v <= r_hi]
+    return _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, "r")
+
+
+def _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, field_name, fixed_extra=None) -> list[dict]:
+    """Fixed + variable resistor covering ``window`` (or centred on the goal with the given pot)."""
+    lows, highs = band(model)
+    nom = model.times()
+    key = next(iter(k for k in ("width", "high", "period") if k in nom))
+    up, dn = highs[key] / nom[key], lows[key] / nom[key]
+    extra = fixed_extra or {}
+    if window is None:  # a given variable resistor: centre the goal on its travel
+        pot = circuit.pot
+        fixed_ideal = _solve(ev, t_goal) - pot / 2
+        fixed = max(eseries.nearest(series, max(fixed_ideal, r_lo)), r_lo)
+        fixed = eseries.next_up(series, fixed * 0.9999999) if fixed < r_lo else fixed
+        return [{field_name: fixed, "pot": pot, "pot_setting": None, **extra}]
+    out = []
+    for worst in (True, False):
+        a, b = (window[0] / up, window[1] / dn) if worst else window
+        f_ideal, top = _solve(ev, a), _solve(ev, b)
+        if f_ideal < r_lo or not math.isfinite(top):
+            continue
+        fixed = eseries.next_down(series, f_ideal * 1.0000001)
+        if fixed < r_lo:
+            fixed = eseries.next_up(series, r_lo * 0.9999999)
+            if fixed > f_ideal:
+                continue
+        need = top - fixed
+        pot = next((p for p in POT_VALUES if p >= need), None)
+        if pot is None or fixed + pot > r_hi:
+            continue
+        out.append({field_name: fixed, "pot": pot, "pot_setting": None, **extra})
+        if worst:
+            break
+    return out
+
+
+def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable) -> list[dict]:
+    """RA/RB pairs for a 555 astable: RA from the duty (or about RB/10), RB from the period."""
+    c = model.params["c"]
+    u, l = model.params["upper"], model.params["lower"]
+    a = math.log((1 - l) / (1 - u))
+    b = math.log(u / l)
+    duty = circuit.target.duty if circuit.target is not None else None
+    if q == "high":  # a width target on an astable: the high time, duty from --duty or ~52 %
+        period = t_goal / (duty or 0.524)
+    else:
+        period = t_goal
+    spread = model.params.get("spread", 1.0) * model.params.get("kf", 1.0)
+    period /= spread
+    if duty is not None and duty > 0.5:
+        rb = (1 - duty) * period / (c * b)
+        ra = duty * period / (c * a) - rb
+    else:
+        # No duty given (or unreachable): RA = RB/10, i.e. about 52 % duty (common practice).
+        rb = period / (c * (a * 1.1 + b))
+        ra = rb / 10
+    ra = max(ra, r_lo)
+    if not variable:
+        ra_s = eseries.nearest(series, ra)
+        if ra_s < r_lo:
+            ra_s = eseries.next_up(series, r_lo * 0.9999999)
+        rb_ideal = _solve(lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q], t_goal)
+        if rb_ideal <= 0 or ra_s + rb_ideal > r_hi:
+            return []
+        rbs = {eseries.next_down(series, rb_ideal * 1.0000001), eseries.next_up(series, rb_ideal * 0.9999999)}
+        return [{"ra": ra_s, "rb": rb_s} for rb_s in sorted(rbs)]
+    ra_s = max(eseries.nearest(series, ra), eseries.next_up(series, r_lo * 0.9999999))
+    ev = lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q]  # noqa: E731
+    return _variable(ev, model.with_params(ra=ra_s), circuit, t_goal, window, series, 1.0, r_hi - ra_s, "rb", {"ra": ra_s})
+
+
+def _candidate(family: Family, circuit: Circuit, target: Target, kept_c: bool) -> Candidate:
+    model = build(family, circuit)
+    nominal = model.times()
+    lows, highs = band(model)
+    q = target_quantity(model, target)
+    adjust = setting = None
+    if model.pot:
+        lo, hi = travel_ends(model)
+        adjust = {"min": lo, "max": hi, "pot": model.pot}
+        setting = setting_for(model, q, target.value)
+        if setting is not None:
+            model = model.with_params(rp=model.pot * setting)
+            nominal = model.times()
+            lows, highs = band(model)
+    error = nominal[q] / target.value - 1.0
+    duty_error = None
+    if target.duty is not None and model.mode == "astable":
+        duty_error = nominal["duty"] - target.duty
+    values = network_values(model)
+    if model.pot:
+        values["pot_setting"] = setting
+    if target.range is not None and model.pot:
+        error = 0.0 if setting is not None else error
+    return Candidate(
+        values=values, timing={"nominal": nominal, "min": lows, "max": highs}, error=error,
+        findings=check_model(model, nominal), kept_c=kept_c, adjust=adjust, setting=setting, duty_error=duty_error,
+    )

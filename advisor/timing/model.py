@@ -1,0 +1,249 @@
+"""Bind a family's law and constants to one circuit: the timing model.
+
+A :class:`Model` holds the nominal inputs (``params``), the interval each input may
+take (``ranges``: component tolerances, published-constant spread, part-to-part
+spread) and ``times(params)``, which evaluates the law for scalars or numpy arrays.
+The band, the Monte Carlo run, the adjustment range and inverse design all work
+through this one object, so every law gets all of them.
+
+Parameter names: ``r`` fixed main resistor (Rext, RA of a 555 monostable), ``rp``
+the part of the variable resistor in circuit, ``ra``/``rb`` the 555 astable pair
+(the variable resistor adds to RB), ``c``, ``vcc``, the law's constants by name,
+``kf`` (555: ratio of a published rounded constant to the exact law) and
+``spread`` (part-to-part multiplier, nominal 1).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+
+from advisor.circuit import Circuit
+from advisor.errors import InputError
+from advisor.parts import Family
+from advisor.timing import laws
+from advisor.timing.constants import Constant, pick
+
+#: Times of each mode's result, in the order reports show them.
+MONO_KEYS = ("width",)
+ASTABLE_KEYS = ("high", "low", "period", "frequency", "duty")
+TIME_KEYS = ("width", "high", "low", "period")
+
+#: Supply assumed when none is given (common practice: the usual logic supply).
+DEFAULT_VCC = 5.0
+#: Setting assumed for a variable resistor whose setting is not given.
+DEFAULT_POT_SETTING = 0.5
+
+
+@dataclass
+class Model:
+    family: Family
+    law: str
+    mode: str  # "mono" | "astable"
+    params: dict[str, float]
+    ranges: dict[str, tuple[float, float]]
+    constants: dict[str, Constant]
+    pot: float | None = None
+    pot_setting: float | None = None
+    assumptions: list[str] = field(default_factory=list)
+    r_internal: bool = False
+    tolerance_kind: dict[str, str] = field(default_factory=dict)  # param -> "r" | "c" | "const" | "spread"
+    cont: float | None = None  # V, driven 555 control pin
+
+    @property
+    def keys(self) -> tuple[str, ...]:
+        return MONO_KEYS if self.mode == "mono" else ASTABLE_KEYS
+
+    @property
+    def main_quantity(self) -> str:
+        return "width" if self.mode == "mono" else "period"
+
+    def times(self, p: dict | None = None) -> dict:
+        """Evaluate the law: {"width"} or {"high","low","period","frequency","duty"} (s, Hz)."""
+        p = self.params if p is None else p
+        s = p.get("spread", 1.0) * p.get("kf", 1.0)
+        if self.mode == "mono":
+            r = p["r"] + p.get("rp", 0.0)
+            if self.law == "krc":
+                w = laws.k_rc(p["k"], r, p["c"], p.get("r_offset", 0.0))
+            elif self.law == "ln-supply":
+                w = laws.ln_supply(p["a"], r, p["c"], p["vcc"])
+            elif self.law == "cd4047":
+                w = laws.cd4047_mono(p["k_mono"], r, p["c"])
+            elif self.law == "timer-555":
+                w = laws.timer555_mono(r, p["c"], p["upper"])
+            else:  # pragma: no cover - guarded in build()
+                raise InputError(f"law {self.law!r} has no monostable form")
+            return {"width": w * s}
+        if self.law == "timer-555":
+            th, tl = laws.timer555_astable(p["ra"], p["rb"] + p.get("rp", 0.0), p["c"], p["upper"], p["lower"], p.get("r_dis", 0.0))
+            th, tl = th * s, tl * s
+        else:
+            r = p["r"] + p.get("rp", 0.0)
+            if self.law == "cd4047":
+                period = laws.cd4047_astable(p["k_astable"], r, p["c"])
+            else:
+                period = laws.cd4541_oscillator(p["k_osc"], r, p["c"])
+            th = tl = period * s / 2
+        period = th + tl
+        return {"high": th, "low": tl, "period": period, "frequency": 1.0 / period, "duty": th / period}
+
+    def at(self, **changes: float) -> dict:
+        """A copy of the nominal params with some changed (e.g. ``rp=0``)."""
+        p = dict(self.params)
+        p.update(changes)
+        return p
+
+    def with_params(self, **changes: float) -> "Model":
+        """A model with some nominal inputs changed; ranges follow the tolerances."""
+        p = self.at(**changes)
+        rng = dict(self.ranges)
+        for k, v in changes.items():
+            if k in rng and k in self.tolerance_kind and self.tolerance_kind[k] in ("r", "c"):
+                lo, hi = self.ranges[k]
+                nom = self.params[k]
+                rng[k] = (v * lo / nom, v * hi / nom) if nom else (v, v)
+        return replace(self, params=p, ranges=rng)
+
+
+def resolve_mode(family: Family, circuit: Circuit) -> str:
+    fn = family.function
+    if fn == "programmable-timer":
+        return "astable"
+    if fn == "monostable":
+        if circuit.mode == "astable":
+            raise InputError(f"{family.id} is a one-shot; it has no astable mode", got="astable", expected="--mode mono")
+        return "mono"
+    return circuit.mode or "mono"
+
+
+def default_vcc(family: Family) -> float:
+    rec = family.supply.recommended
+    return min(max(DEFAULT_VCC, rec.min), rec.max)
+
+
+def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Model:
+    """The model for ``circuit`` on ``family``; raises InputError when values are missing.
+
+    With ``need_network=False`` missing resistors are allowed (set to 1 Ω) so inverse
+    design can reuse the constants and ranges.
+    """
+    mode = resolve_mode(family, circuit)
+    law = family.timing.law
+    assumptions: list[str] = []
+    vcc = circuit.vcc
+    if vcc is None:
+        vcc = default_vcc(family)
+        assumptions.append(f"supply {vcc:g} V (not given)")
+    c = circuit.c
+    if c is None:
+        if need_network:
+            raise InputError(f"{family.id}: give the timing capacitor (--c)", expected="a capacitance such as 10n")
+        c = 1e-9
+    rt, ct = circuit.r_tolerance, circuit.c_tolerance
+    params: dict[str, float] = {"vcc": vcc, "c": c, "rp": 0.0}
+    ranges: dict[str, tuple[float, float]] = {"c": (c * (1 - ct), c * (1 + ct))}
+    kinds: dict[str, str] = {"c": "c"}
+    pot, setting = circuit.pot, circuit.pot_setting
+    if pot is not None:
+        if setting is None:
+            setting = DEFAULT_POT_SETTING
+            assumptions.append(f"variable resistor at {setting:.0%} of its travel (setting not given)")
+        params["rp"] = pot * setting
+
+    r_internal = False
+    if mode == "astable" and law == "timer-555":
+        ra, rb = circuit.ra, circuit.rb
+        if ra is None and circuit.r is not None:
+            ra = circuit.r
+        if ra is None or rb is None:
+            if need_network:
+                raise InputError(f"{family.id} astable: give --ra and --rb (and --c)", expected="resistances such as 4k7")
+            ra, rb = ra or 1.0, rb or 1.0
+        for name, v in (("ra", ra), ("rb", rb)):
+            params[name] = v
+            ranges[name] = (v * (1 - rt), v * (1 + rt))
+            kinds[name] = "r"
+    else:
+        r = circuit.r if circuit.r is not None else circuit.ra
+        if r is None and family.timing.r_internal is not None and circuit.pot is None:
+            r = family.timing.r_internal.value
+            r_internal = True
+            assumptions.append(f"internal timing resistor {r:g} Ω (no external R given)")
+        if r is None:
+            if need_network:
+                raise InputError(f"{family.id}: give the timing resistor (--r) and capacitor (--c)", expected="e.g. --r 10k --c 10n")
+            r = 1.0
+        params["r"] = r
+        # An on-chip resistor has its own spread, usually wider than a 5 % part; without a
+        # published figure the resistor tolerance stands in for it.
+        ranges["r"] = (r * (1 - rt), r * (1 + rt))
+        kinds["r"] = "r"
+        if mode == "astable" and law not in ("cd4047", "cd4541"):
+            raise InputError(f"{family.id}: law {law!r} has no astable form", got="astable", expected="--mode mono")
+
+    constants: dict[str, Constant] = {}
+    needed = {
+        "krc": ("k", "r_offset"),
+        "ln-supply": ("a",),
+        "cd4047": ("k_mono",) if mode == "mono" else ("k_astable",),
+        "cd4541": ("k_osc",),
+        "timer-555": ("upper_threshold", "lower_threshold", "r_discharge"),
+    }[law]
+    for name in needed:
+        if name == "r_discharge" and mode == "mono":
+            continue  # the discharge transistor only holds C at zero between pulses
+        const = pick(family, name, vcc, c)
+        if const is None:
+            continue
+        constants[name] = const
+        key = {"upper_threshold": "upper", "lower_threshold": "lower", "r_discharge": "r_dis"}.get(name, name)
+        params[key] = const.nominal
+        ranges[key] = (const.min, const.max)
+        kinds[key] = "const"
+    if law == "timer-555":
+        params.setdefault("upper", 2.0 / 3.0)
+        params.setdefault("lower", 1.0 / 3.0)
+        cont = getattr(circuit, "cont", None)
+        default_u, default_l = params["upper"], params["lower"]
+        if cont is not None:
+            if not 0 < cont < vcc:
+                raise InputError(f"control voltage {cont:g} V must lie between 0 and the supply {vcc:g} V", got=cont)
+            # Driving CONT moves both comparator references: THRES trips at Vc, TRIG at Vc/2
+            # (TI NE555 SLFS022 functional description).
+            params["upper"], params["lower"] = cont / vcc, cont / (2 * vcc)
+            ranges.pop("upper", None)
+            ranges.pop("lower", None)
+        _add_published_factor(family, mode, params, ranges, kinds, constants, vcc, c, default_u, default_l)
+    spread = family.timing.spread
+    if spread is not None and spread.value > 0:
+        params["spread"] = 1.0
+        ranges["spread"] = (1 - spread.value, 1 + spread.value)
+        kinds["spread"] = "spread"
+    return Model(
+        family=family, law=law, mode=mode, params=params, ranges=ranges, constants=constants,
+        pot=pot, pot_setting=setting if pot is not None else None, assumptions=assumptions,
+        r_internal=r_internal, tolerance_kind=kinds, cont=getattr(circuit, "cont", None) if law == "timer-555" else None,
+    )
+
+
+def _add_published_factor(family, mode, params, ranges, kinds, constants, vcc, c, u, l) -> None:
+    """555: the rounded published constants (1.1, 1.44, one maker's 1.38) against the exact law.
+
+    The exact law is the nominal; each published constant's ratio to it widens the
+    band, so the spread between makers shows in min/max (design guide, catalog).
+    """
+    name = "mono_k" if mode == "mono" else "astable_k"
+    const = pick(family, name, vcc, c)
+    if const is None:
+        return
+    constants[name] = const
+    if mode == "mono":
+        exact = laws.timer555_mono(1.0, 1.0, u)
+        ratios = [k / exact for k in (const.min, const.max)]
+    else:
+        ra, rb = params["ra"], params["rb"] + params.get("rp", 0.0)
+        th, tl = laws.timer555_astable(ra, rb, 1.0, u, l)
+        ratios = [((ra + 2 * rb) / k) / (th + tl) for k in (const.min, const.max)]
+    params["kf"] = 1.0
+    ranges["kf"] = (min(ratios + [1.0]), max(ratios + [1.0]))
+    kinds["kf"] = "const"

@@ -1,0 +1,356 @@
+"""Check/swap desk: edit the part, its replacement, supply and timing network; every change
+recomputes (through :mod:`advisor.tui.bridge`) the values, band, findings, picture, pin map
+and rework steps.
+
+A bad value is marked under its own field, quoting what was typed and what is expected;
+no result is shown until the whole form reads again, so stale numbers never pass for new.
+"""
+
+from __future__ import annotations
+
+from rich.console import Group
+from rich.table import Table
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.screen import Screen
+from textual.timer import Timer
+from textual.widgets import Footer, Input, Label, Static
+
+from advisor.tui.bridge import FIELDS, Outcome, evaluate
+from advisor.tui.palette import SEVERITY_MARK, STYLE
+from advisor.tui.waveform import TimingPicture
+from advisor.values import format_code, format_eng
+
+#: Seconds of typing quiet before recomputing; short enough to feel immediate.
+DEBOUNCE = 0.08
+
+_QTY_UNITS = {"width": "s", "high": "s", "low": "s", "period": "s", "frequency": "Hz"}
+_VALUE_SHOWN = [("vcc", "supply", "V"), ("r", "R", "Ω"), ("ra", "RA", "Ω"), ("rb", "RB", "Ω"), ("c", "C", "F"),
+                ("pot", "pot", "Ω"), ("pot_setting", "pot setting", "")]
+
+
+def _q(name: str, value) -> str:
+    if not isinstance(value, (int, float)) or isinstance(value, bool):
+        return "—"
+    if name == "duty":
+        return f"{value:.1%}"
+    return format_eng(float(value), _QTY_UNITS.get(name, ""))
+
+
+def timing_table(timing: dict | None, title: str = "") -> Table | Text:
+    """Nominal and worst-case band of one ``timing`` object, one row per quantity."""
+    if not isinstance(timing, dict) or not isinstance(timing.get("nominal"), dict):
+        return Text("no timing", style=STYLE["dim"])
+    t = Table(box=None, pad_edge=False, padding=(0, 2, 0, 0), title=title or None, title_justify="left",
+              title_style=STYLE["heading"], header_style=STYLE["dim"])
+    t.add_column("")
+    t.add_column("nominal", style=f"bold {STYLE['output']}", justify="right")
+    t.add_column("band min", justify="right")
+    t.add_column("band max", justify="right")
+    lo, hi = timing.get("min") or {}, timing.get("max") or {}
+    for name, val in timing["nominal"].items():
+        t.add_row(name, _q(name, val), _q(name, lo.get(name)), _q(name, hi.get(name)))
+    return t
+
+
+def values_line(values: dict | None) -> Text:
+    """The network actually used, in value codes (4k7, 10n) with SI units for the supply."""
+    text = Text()
+    if not isinstance(values, dict):
+        return text
+    for key, label, unit in _VALUE_SHOWN:
+        v = values.get(key)
+        if not isinstance(v, (int, float)) or isinstance(v, bool):
+            continue
+        if unit == "Ω":
+            shown = format_code(v, "resistance")
+        elif unit == "F":
+            shown = format_code(v, "capacitance")
+        elif key == "pot_setting":
+            shown = f"{v:.0%}"
+        else:
+            shown = format_eng(v, unit)
+        if text:
+            text.append("  ")
+        text.append(f"{label} ", style=STYLE["dim"])
+        text.append(shown, style=STYLE["key"])
+    return text
+
+
+def _extras(data: dict) -> list:
+    """Adjustment range, target, calibration, trigger and tolerances, when present."""
+    out: list = []
+    adj = data.get("adjust")
+    if isinstance(adj, dict) and isinstance(adj.get("min"), dict):
+        parts = [f"{k} {_q(k, adj['min'].get(k))} .. {_q(k, (adj.get('max') or {}).get(k))}" for k in adj["min"] if k != "duty"]
+        out.append(Text("pot travel: " + "; ".join(parts), style=STYLE["key"]))
+    tgt = data.get("target")
+    if isinstance(tgt, dict):
+        ok = tgt.get("reachable")
+        line = Text("target: ", style=STYLE["dim"])
+        line.append("reachable" if ok else "not reachable", style=STYLE["good"] if ok else STYLE["danger"])
+        if tgt.get("setting") is not None:
+            line.append(f" at {tgt['setting']:.0%} of the pot")
+        out.append(line)
+    cal = data.get("calibration")
+    if isinstance(cal, dict) and cal.get("factor") is not None:
+        out.append(Text(f"calibrated from the measured {cal.get('quantity', 'time')}: ×{cal['factor']:.4g}", style=STYLE["key"]))
+    trig = data.get("trigger")
+    if isinstance(trig, dict) and trig.get("period"):
+        line = Text("trigger every ", style=STYLE["dim"])
+        line.append(format_eng(trig["period"], "s"), style=STYLE["key"])
+        if trig.get("stays_high"):
+            line.append(": output stays high (each trigger restarts the pulse)", style=STYLE["warning"])
+        elif trig.get("divide_by") and trig["divide_by"] > 1:
+            line.append(f": only 1 trigger in {trig['divide_by']} fires", style=STYLE["warning"])
+        elif trig.get("divide_by") == 1:
+            line.append(": every trigger fires", style=STYLE["good"])
+        out.append(line)
+    tol = data.get("tolerances")
+    if isinstance(tol, dict) and tol.get("r_tol") is not None:
+        line = Text(f"band from R ±{tol['r_tol']:.0%}, C ±{tol.get('c_tol', 0):.0%} and the spread of published constants", style=STYLE["dim"])
+        dflt = tol.get("defaulted")
+        if dflt and (dflt is True or (isinstance(dflt, dict) and any(dflt.values()))):
+            line.append(" (tolerances assumed)", style=STYLE["dim"])
+        out.append(line)
+    return out
+
+
+def findings_view(findings: list[dict]) -> Table | Text:
+    """Most severe first; the mark column keeps wrapped lines aligned under the message."""
+    if not findings:
+        return Text("No findings: nothing the datasheet rules object to.", style=STYLE["good"])
+    t = Table(box=None, show_header=False, pad_edge=False, padding=(0, 1, 0, 0), expand=True)
+    t.add_column(no_wrap=True, width=10)
+    t.add_column(ratio=1)
+    for f in findings:
+        sev = str(f.get("severity", "note"))
+        body = Text()
+        if f.get("part"):
+            body.append(f"[{f['part']}] ", style=STYLE["id"])
+        body.append(str(f.get("message", "")))
+        if f.get("fix"):
+            body.append("\nfix: ", style=STYLE["dim"])
+            body.append(str(f["fix"]))
+        if f.get("source"):
+            body.append(f"\nsource: {f['source']}", style=STYLE["dim"])
+            if f.get("rule"):
+                body.append(f" · rule {f['rule']}", style=STYLE["dim"])
+        t.add_row(Text(SEVERITY_MARK.get(sev, sev), style=STYLE.get(sev, STYLE["key"])), body)
+    return t
+
+
+def pin_map_view(pin_map) -> Table | Text:
+    """The swap's pin map: old pin → new pin per channel, whatever list/dict shape it has."""
+    if not pin_map:
+        return Text("no pin map", style=STYLE["dim"])
+    rows: list[dict] = []
+    if isinstance(pin_map, dict):
+        for k, v in pin_map.items():
+            if isinstance(v, list):
+                rows.extend({"channel": k, **x} if isinstance(x, dict) else {"channel": k, "to": x} for x in v)
+            elif isinstance(v, dict):
+                rows.append({"from": k, **v})
+            else:
+                rows.append({"from": k, "to": v})
+    elif isinstance(pin_map, list):
+        for x in pin_map:
+            if isinstance(x, dict) and isinstance(x.get("pins"), list):
+                rows.extend({"channel": x.get("channel"), **p} for p in x["pins"] if isinstance(p, dict))
+            else:
+                rows.append(x if isinstance(x, dict) else {"map": x})
+    cols: list[str] = []
+    for r in rows:
+        for k in r:
+            if k not in cols:
+                cols.append(k)
+    t = Table(box=None, pad_edge=False, padding=(0, 2, 0, 0), header_style=STYLE["dim"])
+    for c in cols:
+        t.add_column(str(c).replace("_", " "))
+    for r in rows:
+        t.add_row(*("" if r.get(c) is None else str(r.get(c)) for c in cols))
+    return t
+
+
+def rework_view(steps) -> Text:
+    if not steps:
+        return Text("no rework", style=STYLE["dim"])
+    text = Text()
+    for i, s in enumerate(steps, 1):
+        if i > 1:
+            text.append("\n")
+        if isinstance(s, dict):
+            what = s.get("text") or s.get("step") or s.get("action") or " ".join(f"{k}: {v}" for k, v in s.items())
+            if s.get("action") and s.get("text"):
+                what = f"{s['action']}: {s['text']}"
+        else:
+            what = str(s)
+        text.append(f"{i:>2}. ", style=STYLE["heading"])
+        text.append(str(what))
+    return text
+
+
+class WorkspaceScreen(Screen):
+    """Check one part, or swap it for another, with live recomputation."""
+
+    BINDINGS = [
+        Binding("ctrl+l", "clear_form", "Clear"),
+        Binding("ctrl+r", "exchange", "Exchange parts"),
+    ]
+
+    def __init__(self) -> None:
+        super().__init__()
+        self._timer: Timer | None = None
+        self.outcome: Outcome | None = None
+
+    def compose(self) -> ComposeResult:
+        with Horizontal(id="ws"):
+            with VerticalScroll(id="form"):
+                for spec in FIELDS:
+                    with Horizontal(classes="field-row"):
+                        yield Label(spec.label, classes="field-label")
+                        yield Input(placeholder=spec.placeholder, id=f"f-{spec.key}", tooltip=spec.tip)
+                    yield Static("", id=f"e-{spec.key}", classes="field-error")
+                yield Static("", id="form-note")
+            with VerticalScroll(id="outcome"):
+                yield Static("", id="headline")
+                yield Static("", id="timing", classes="panel")
+                yield TimingPicture(id="picture", classes="panel")
+                yield Static("", id="findings", classes="panel")
+                yield Static("", id="pins", classes="panel")
+                yield Static("", id="rework", classes="panel")
+        yield Footer()
+
+    def on_mount(self) -> None:
+        self.query_one("#form").border_title = "Circuit"
+        self.query_one("#timing").border_title = "Values and band"
+        self.query_one("#picture").border_title = "Timing picture"
+        self.query_one("#findings").border_title = "Findings"
+        self.query_one("#pins").border_title = "Pin map"
+        self.query_one("#rework").border_title = "Rework at the bench"
+        self.take_pending()
+        self.recompute()
+        self.query_one("#f-old", Input).focus()
+
+    def on_screen_resume(self) -> None:
+        if self.take_pending():
+            self.recompute()
+
+    def take_pending(self) -> bool:
+        pending = getattr(self.app, "pending_fields", None)
+        if not pending:
+            return False
+        for key, value in list(pending.items()):
+            try:
+                self.query_one(f"#f-{key}", Input).value = value
+            except Exception:  # a key this form does not have: ignore it
+                pass
+        pending.clear()
+        return True
+
+    # --- recomputation -------------------------------------------------------------
+    def on_input_changed(self, event: Input.Changed) -> None:
+        if self._timer is not None:
+            self._timer.stop()
+        self._timer = self.set_timer(DEBOUNCE, self.recompute)
+
+    def raw_fields(self) -> dict[str, str]:
+        return {spec.key: self.query_one(f"#f-{spec.key}", Input).value for spec in FIELDS}
+
+    def recompute(self) -> None:
+        """Read the form, ask the engine, render; never raises."""
+        self._timer = None
+        outcome = evaluate(self.app.catalog, self.raw_fields())
+        self.outcome = outcome
+        self.show(outcome)
+
+    def show(self, out: Outcome) -> None:
+        for spec in FIELDS:
+            err = self.query_one(f"#e-{spec.key}", Static)
+            msg = out.field_errors.get(spec.key)
+            err.update(Text(f"↳ {msg}", style=STYLE["danger"]) if msg else "")
+            err.set_class(bool(msg), "shown")
+            self.query_one(f"#f-{spec.key}", Input).set_class(bool(msg), "bad")
+        note = self.query_one("#form-note", Static)
+        headline = self.query_one("#headline", Static)
+        if out.kind == "empty":
+            headline.update(Text(out.hint or "", style=STYLE["dim"]))
+            note.update("")
+            self._show_result(None)
+            return
+        if out.kind == "error":
+            line = Text()
+            if out.part:
+                line.append(out.part, style=STYLE["id"])
+                if out.new_part:
+                    line.append(" → ")
+                    line.append(out.new_part, style=STYLE["id"])
+                line.append("  ")
+            line.append(out.problem or "fix the marked field", style=STYLE["warning"])
+            headline.update(line)
+            note.update(Text("nothing recomputed until the form reads", style=STYLE["dim"]))
+            self._show_result(None)
+            return
+        note.update("")
+        head = Text()
+        if out.kind == "swap":
+            head.append(out.part or "", style=STYLE["id"])
+            head.append(" → ")
+            head.append(out.new_part or "", style=STYLE["id"])
+            cls = out.data.get("class")
+            if cls:
+                style = STYLE["danger"] if cls == "unsuitable" else STYLE["warning"] if cls in ("rewire", "redesign") else STYLE["good"]
+                head.append("   class ", style=STYLE["dim"])
+                head.append(str(cls), style=style)
+        else:
+            head.append(out.part or "", style=STYLE["id"])
+            mode = out.data.get("mode")
+            head.append(f"  check{'' if not mode else ' · ' + str(mode)}", style=STYLE["dim"])
+        worst = out.findings[0]["severity"] if out.findings else None
+        if worst:
+            n = sum(1 for f in out.findings if f.get("severity") == worst)
+            head.append(f"   {n} {SEVERITY_MARK[worst]}{'s' if n > 1 and worst != 'danger' else ''}", style=STYLE.get(worst))
+        headline.update(head)
+        self._show_result(out)
+
+    def _show_result(self, out: Outcome | None) -> None:
+        timing = self.query_one("#timing", Static)
+        picture = self.query_one("#picture", TimingPicture)
+        findings = self.query_one("#findings", Static)
+        pins = self.query_one("#pins", Static)
+        rework = self.query_one("#rework", Static)
+        for w in (timing, picture, findings):
+            w.display = out is not None
+        is_swap = out is not None and out.kind == "swap"
+        pins.display = rework.display = is_swap
+        if out is None:
+            picture.result = None
+            return
+        data = out.data
+        if is_swap:
+            parts: list = []
+            for side in ("old", "new"):
+                d = data.get(side) or {}
+                fam = d.get("family") or side
+                parts.append(timing_table(d.get("timing"), f"{side}: {fam}"))
+                parts.append(values_line(d.get("values")))
+            parts.extend(_extras(data))
+            timing.update(Group(*parts))
+            pins.update(pin_map_view(data.get("pin_map")))
+            rework.update(rework_view(data.get("rework")))
+        else:
+            timing.update(Group(timing_table(data.get("timing")), values_line(data.get("values")), *_extras(data)))
+        picture.result = out.timing_json
+        findings.update(findings_view(out.findings))
+
+    # --- actions --------------------------------------------------------------------
+    def action_clear_form(self) -> None:
+        for spec in FIELDS:
+            self.query_one(f"#f-{spec.key}", Input).value = ""
+        self.query_one("#f-old", Input).focus()
+
+    def action_exchange(self) -> None:
+        old, new = self.query_one("#f-old", Input), self.query_one("#f-new", Input)
+        old.value, new.value = new.value, old.value
