@@ -14,7 +14,7 @@ A part number is read in three steps, each one scored:
    after the base form is never a suffix, so 74HC123 does not swallow 74HC1234.
    Prefixes that name a technology (TLC, LMC, ICM, 74HC...) are never dropped,
    so a TLC555 is not taken for a bipolar 555.
-3. **fuzzy** (score at most 89): Levenshtein similarity (rapidfuzz) of the
+3. **fuzzy** (score at most 89): optimal-string-alignment similarity (edits and adjacent swaps) (rapidfuzz) of the
    query's core against every base form, for typos. Always ranked below any
    rule-based match.
 
@@ -177,7 +177,7 @@ def _rule_matches(idx: _Index, q: str) -> dict[str, Match]:
 
 def _fuzzy_matches(idx: _Index, q: str, limit: int) -> dict[str, Match]:
     from rapidfuzz import process
-    from rapidfuzz.distance import Levenshtein
+    from rapidfuzz.distance import OSA
 
     cores = {q}
     for _prefix, rest in _strip_prefixes(q, QUERY_PREFIXES):
@@ -187,7 +187,7 @@ def _fuzzy_matches(idx: _Index, q: str, limit: int) -> dict[str, Match]:
             cores.add(m.group(1))
     best: dict[str, Match] = {}
     for core in cores:
-        hits = process.extract(core, idx.choices, scorer=Levenshtein.normalized_similarity,
+        hits = process.extract(core, idx.choices, scorer=OSA.normalized_similarity,
                                limit=max(limit * 3, 10), score_cutoff=FUZZY_FLOOR / 100)
         for key, sim, i in hits:
             score = min(FUZZY_CAP, sim * 100)

@@ -137,3 +137,17 @@ def write_report_if_asked(args: argparse.Namespace, result: object, kind: str) -
 
     written = render_report(to_plain(result), path, kind, catalog_for(args))
     sys.stderr.write(f"retime: report written to {written}\n")
+
+
+# --- supply migration (--new-vcc on check, swap, alternates, demo) -------------------
+
+
+def add_new_vcc_option(p: argparse.ArgumentParser) -> None:
+    """Register ``--new-vcc V``: the supply the circuit moves to (swap, alternates, check)."""
+    p.add_argument("--new-vcc", metavar="V",
+                   help="supply the circuit moves to, e.g. 5 or 3.3V (default: the old supply)")
+
+
+def new_vcc_from_args(args: argparse.Namespace) -> float | None:
+    """The parsed ``--new-vcc`` (V), or None when absent; a bad value is one located error."""
+    return _get(args, "--new-vcc", "voltage")

@@ -19,6 +19,12 @@ HTML_SUFFIXES = (".html", ".htm")
 MARKDOWN_SUFFIXES = (".md", ".markdown")
 
 
+def _umask() -> int:
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
 def report_format(path: str | os.PathLike) -> str:
     """``"html"`` or ``"markdown"`` by extension; InputError for anything else."""
     suffix = Path(path).suffix.lower()
@@ -67,6 +73,7 @@ def render_report(result_json: dict, path: str | os.PathLike, kind: str, catalog
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
             fh.write(text)
+        os.chmod(tmp, 0o666 & ~_umask())  # mkstemp makes 0600; a report is an ordinary file
         os.replace(tmp, target)
     except OSError as exc:
         if os.path.exists(tmp):

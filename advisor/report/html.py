@@ -57,7 +57,7 @@ li.finding p { margin: .15rem 0; }
 .tag { font-size: .75rem; font-weight: 700; text-transform: uppercase; letter-spacing: .05em; margin-right: .4rem; }
 .sev-danger .tag { color: var(--danger); } .sev-warning .tag { color: var(--warning); } .sev-note .tag { color: var(--note); }
 .rule, .src { color: var(--muted); font-size: .85rem; }
-ol.bench li { margin: .3rem 0; }
+ol.bench li { margin: .3rem 0; } ol.bench .tag { color: var(--accent); }
 .cautions { border: 2px solid var(--danger); border-radius: .4rem; padding: .25rem 1rem .5rem; background: #fffaf8; }
 .cautions h2 { border: 0; margin-top: .6rem; color: var(--danger); }
 .notes li { color: var(--muted); }
@@ -158,11 +158,19 @@ def render_html(rep: Report) -> str:
         parts.append(f'<section class="table"><h2>{escape(heading)}</h2>{_table(t, "extra")}</section>')
     parts.append(_pictures(rep))
     parts.append(_findings(rep))
-    if rep.pin_map is not None:
-        parts.append(f'<section id="pins"><h2>Pin moves</h2>{_table(rep.pin_map, "pin-map")}</section>')
+    if rep.pin_map is not None or rep.pin_tables:
+        parts.append('<section id="pins"><h2>Pin moves</h2>')
+        if rep.pin_map is not None:
+            parts.append(_table(rep.pin_map, "pin-map"))
+        for heading, t in rep.pin_tables:
+            parts.append(f"<h3>{escape(heading)}</h3>{_table(t, 'pin-extra')}")
+        if rep.pin_notes:
+            parts.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.pin_notes) + "</ul>")
+        parts.append("</section>")
     if rep.rework:
-        parts.append('<section id="bench"><h2>Bench steps</h2><ol class="bench">'
-                     + "".join(f"<li>{escape(s)}</li>" for s in rep.rework) + "</ol></section>")
+        parts.append('<section id="bench"><h2>Bench steps</h2><ol class="bench">' + "".join(
+            f'<li data-action="{escape(a)}">' + (f'<span class="tag">{escape(a)}</span>' if a else "") + f"{escape(t)}</li>"
+            for a, t in rep.rework) + "</ol></section>")
     parts.append('<section id="cautions" class="cautions"><h2>Take care</h2><ul>'
                  + "".join(f"<li>{escape(c)}</li>" for c in rep.cautions) + "</ul></section>")
     if rep.sources:

@@ -94,10 +94,16 @@ def render_markdown(rep: Report) -> str:
                 out.append(f"  - Fix: {f.fix}")
             out.append(f"  - Source: {f.source or 'not stated'} · rule `{f.rule}`")
         out.append("")
-    if rep.pin_map is not None:
-        out += ["## Pin moves", ""] + _table(rep.pin_map) + [""]
+    if rep.pin_map is not None or rep.pin_tables:
+        out += ["## Pin moves", ""]
+        if rep.pin_map is not None:
+            out += _table(rep.pin_map) + [""]
+        for heading, t in rep.pin_tables:
+            out += [f"### {heading}", ""] + _table(t) + [""]
+        out += [f"- {n}" for n in rep.pin_notes] + ([""] if rep.pin_notes else [])
     if rep.rework:
-        out += ["## Bench steps", ""] + [f"{i}. {s}" for i, s in enumerate(rep.rework, 1)] + [""]
+        out += ["## Bench steps", ""] + [f"{i}. " + (f"**{a}**: " if a else "") + t
+                                         for i, (a, t) in enumerate(rep.rework, 1)] + [""]
     out += ["## Take care", ""] + [f"- {c}" for c in rep.cautions] + [""]
     if rep.sources:
         out += ["## Where the numbers come from", ""]

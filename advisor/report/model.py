@@ -68,7 +68,9 @@ def quantity(label: str, value: Any, unit: str, key: str = "") -> Quantity:
         return Quantity(label, None, unit, "—" if value is None else str(value), key)
     v = float(value)
     if unit == "":  # fractions (duty, setting) as percent
-        return Quantity(label, v, unit, f"{v * 100:.{DIGITS - 1}g} %", key)
+        return Quantity(label, v, unit, f"{v * 100:.{DIGITS}g} %", key)
+    if unit == "%":
+        return Quantity(label, v, unit, f"{v * 100:+.2f} %", key)
     if unit == "×":
         return Quantity(label, v, unit, f"{v:.{DIGITS}g}", key)
     return Quantity(label, v, unit, format_eng(v, unit, DIGITS), key)
@@ -154,7 +156,9 @@ class Report:
     waves: Waves | None = None
     findings: list[FindingView] = field(default_factory=list)
     pin_map: Table | None = None
-    rework: list[str] = field(default_factory=list)
+    rework: list[tuple[str, str]] = field(default_factory=list)  # (action, text), in order
+    pin_tables: list[tuple[str, Table]] = field(default_factory=list)
+    pin_notes: list[str] = field(default_factory=list)
     extra_tables: list[tuple[str, Table]] = field(default_factory=list)
     cautions: list[str] = field(default_factory=list)
     sources: list[SourceView] = field(default_factory=list)
@@ -192,6 +196,8 @@ def network_items(values: dict | None, prefix: str = "") -> list[NetItem]:
         if v is None or (key == "pot" and v == 0):
             continue
         unit = "Ω" if kind == "resistance" else "F"
+        if key == "r" and (values or {}).get("r_internal"):
+            role = "internal timing resistor (on the chip: fit nothing)"
         out.append(NetItem(ref, role, v, unit, format_eng(v, unit, DIGITS), format_code(v, kind), (), f"{prefix}values.{key}"))
     return out
 
@@ -271,7 +277,7 @@ def build_waves(timing: dict | None, trigger: dict | None, *, mode: str | None, 
         return None
     trig = trigger or {}
     period = _num(trig.get("period"))
-    edge = edge or trig.get("edge") or "rising"
+    edge = trig.get("edge") or edge or "rising"
     if not period:
         rows = [(name, ((0.0, width),), width)]
         if old and _num(((old[1] or {}).get("nominal") or {}).get("width")):
@@ -279,7 +285,7 @@ def build_waves(timing: dict | None, trigger: dict | None, *, mode: str | None, 
             rows.insert(0, (old[0], ((0.0, ow),), ow))
         end = 1.5 * max(r[2] for r in rows)
         return Waves("triggered", None, edge, (0.0,), (True,), tuple(rows), end, None, False,
-                     "One trigger and the pulse it starts (no trigger period given).")
+                     "One trigger and the pulse it starts (the result carries no trigger analysis for this part).")
 
     def pattern(tr: dict) -> tuple[bool, int | None]:
         """(stays_high, divide_by) as the result states them."""
@@ -367,17 +373,70 @@ def table_of(rows: Any, preferred: tuple[str, ...] = ()) -> Table | None:
     return Table(tuple(cols), tuple(tuple(_text(r.get(c)) if isinstance(r, dict) else "" for c in cols) for r in rows))
 
 
-def rework_steps(steps: Any) -> list[str]:
+def rework_steps(steps: Any) -> list[tuple[str, str]]:
+    """Ordered (action, text) pairs: the engine's steps ``{n, action, detail, ...}`` or plain text."""
     out = []
     for s in steps or []:
         if isinstance(s, str):
-            out.append(s)
+            out.append(("", s))
         elif isinstance(s, dict):
-            text = s.get("text") or s.get("step") or s.get("action") or s.get("message") or _text(s)
-            out.append(str(text))
+            text = s.get("detail") or s.get("text") or s.get("step") or s.get("message") or _text(s)
+            out.append((str(s.get("action") or ""), str(text)))
         else:
-            out.append(_text(s))
+            out.append(("", _text(s)))
     return out
+
+
+def pin_tables(pm: Any) -> tuple[Table | None, list[tuple[str, Table]], list[str]]:
+    """The swap's pin map as (moves table, further tables, notes).
+
+    Understands the substitute engine's shape (``links``, ``ties``, ``unmatched``,
+    ``additions``, ``polarity``, ``notes``); anything else becomes a generic table.
+    """
+    if not isinstance(pm, dict) or "links" not in pm:
+        return table_of(pm, ("channel", "function", "old_pin", "new_pin", "old", "new", "note")), [], []
+
+    def pin(n: Any, name: Any) -> str:
+        return f"{n} ({name})" if name else str(n)
+
+    def ch(a: Any, b: Any = None) -> str:
+        if a is None and b is None:
+            return "shared"
+        return str(a) if b in (None, a) else f"{a} → {b}"
+
+    links = Table(("section", "function", f"old pin ({pm.get('old_package', '')})", f"new pin ({pm.get('new_package', '')})", "moves", "note"),
+                  tuple((ch(l.get("old_channel"), l.get("new_channel")), str(l.get("function", "")),
+                         pin(l.get("old_pin"), l.get("old_name")), pin(l.get("new_pin"), l.get("new_name")),
+                         "yes" if l.get("moved") else "no", str(l.get("note") or ""))
+                        for l in pm.get("links") or [] if isinstance(l, dict)))
+    more: list[tuple[str, Table]] = []
+    ties = [t for t in pm.get("ties") or [] if isinstance(t, dict)]
+    if ties:
+        more.append(("Inputs to tie", Table(("new pin", "section", "to", "why"), tuple(
+            (pin(t.get("new_pin"), t.get("new_name")), ch(t.get("channel")), str(t.get("level", "")), str(t.get("why", "")))
+            for t in ties))))
+    un = [u for u in pm.get("unmatched") or [] if isinstance(u, dict)]
+    if un:
+        more.append(("Old pins with no counterpart", Table(("old pin", "function", "what to do", "blocks the swap"), tuple(
+            (pin(u.get("old_pin"), u.get("old_name")), str(u.get("function", "")), str(u.get("what", "")),
+             "yes" if u.get("blocking") else "no") for u in un))))
+    adds = [a for a in pm.get("additions") or [] if isinstance(a, dict)]
+    if adds:
+        more.append(("Parts to add", Table(("part", "role", "between", "why"), tuple(
+            (str(a.get("what", "")), str(a.get("role", "")), " and ".join(map(str, a.get("between") or [])), str(a.get("why", "")))
+            for a in adds))))
+    notes = []
+    pol = pm.get("polarity")
+    if isinstance(pol, dict) and pol.get("old_input"):
+        notes.append(f"Trigger: the {pol.get('edge') or 'active'} edge on {pol['old_input']} goes to {pol.get('new_input') or '—'}"
+                     + (" (edge assumed)" if pol.get("assumed") else "") + ".")
+        if pol.get("note"):
+            notes.append(str(pol["note"]))
+    notes += [str(n) for n in pm.get("notes") or []]
+    if "same_footprint" in pm:
+        notes.append(f"Package {pm.get('old_package', '?')} → {pm.get('new_package', '?')}: "
+                     + ("same footprint." if pm.get("same_footprint") else "the footprint changes."))
+    return links, more, notes
 
 
 def _cited_ids(result: dict) -> set[str]:
@@ -414,7 +473,9 @@ def sources_of(result: dict, families: list[str], catalog: Any) -> list[SourceVi
             if (fam.id, s.id) in seen:
                 continue
             seen.add((fam.id, s.id))
-            out.append(SourceView(fam.id, s.id, s.title, s.document or "", s.kind, s.id in cited))
+            # Findings cite sources by title, constants by id: either counts.
+            hit = s.id in cited or any(s.title in c for c in cited)
+            out.append(SourceView(fam.id, s.id, s.title, s.document or "", s.kind, hit))
     if "memory" in cited:
         out.append(SourceView("", "memory", "Recalled value, not confirmed by a published source", "", "memory", True))
     return out
@@ -450,7 +511,8 @@ def _check(result: dict, catalog: Any) -> Report:
     _extras(rep, result, "")
     net = build_network(values, part, mode, catalog)
     rep.networks = [net] if net else []
-    rep.waves = build_waves(result.get("timing"), result.get("trigger"), mode=mode, name=f"{part} output")
+    rep.waves = build_waves(result.get("timing"), result.get("trigger"), mode=mode, name=f"{part} output",
+                            edge=_catalog_edge(catalog, part))
     rep.findings = findings_of(result.get("findings"))
     nom = ((result.get("timing") or {}).get("nominal") or {})
     first = rep.facts[0].text if rep.facts else "no timing"
@@ -459,6 +521,15 @@ def _check(result: dict, catalog: Any) -> Report:
     rep.cautions = _cautions([part], catalog, rep.networks)
     rep.sources = sources_of(result, [part], catalog)
     return rep
+
+
+def _catalog_edge(catalog: Any, fid: str | None) -> str | None:
+    """The active edge of the family's first trigger input (a 555's TRIG fires going low)."""
+    fam = _family(catalog, fid)
+    if fam is None or not fam.behaviour.triggers:
+        return None
+    edge = fam.behaviour.triggers[0].edge
+    return {"level-low": "falling", "level-high": "rising"}.get(edge, edge)
 
 
 def _extras(rep: Report, result: dict, prefix: str) -> None:
@@ -471,7 +542,7 @@ def _extras(rep: Report, result: dict, prefix: str) -> None:
                     rep.facts.append(quantity(f"{name} at {end} of travel", adj[end][name], unit, f"{prefix}adjust.{end}.{name}"))
     tgt = result.get("target")
     if isinstance(tgt, dict):
-        unit = "Hz" if tgt.get("kind") == "freq" else "s"
+        unit = "Hz" if (tgt.get("quantity") or tgt.get("kind")) in ("freq", "frequency") else "s"
         rep.facts.append(quantity("target", tgt.get("value"), unit, f"{prefix}target.value"))
         reach = tgt.get("reachable")
         setting = tgt.get("setting")
@@ -491,17 +562,21 @@ def _extras(rep: Report, result: dict, prefix: str) -> None:
             rep.notes.append(f"With this trigger period only every {trig['divide_by']}th trigger starts a pulse.")
     tol = result.get("tolerances")
     if isinstance(tol, dict) and (_num(tol.get("r_tol")) is not None or _num(tol.get("c_tol")) is not None):
+        d = tol.get("defaulted")
+        assumed = [k for k in ("r_tol", "c_tol") if (d.get(k) if isinstance(d, dict) else d)]
         rep.notes.append(
-            f"Worst-case band from resistor ±{(tol.get('r_tol') or 0) * 100:.3g} % and capacitor "
-            f"±{(tol.get('c_tol') or 0) * 100:.3g} %" + (" (defaults: none were given)" if tol.get("defaulted") else "")
+            f"Worst-case band from resistor ±{(tol.get('r_tol') or 0) * 100:.3g} %"
+            + (" (assumed)" if "r_tol" in assumed else "")
+            + f" and capacitor ±{(tol.get('c_tol') or 0) * 100:.3g} %" + (" (assumed)" if "c_tol" in assumed else "")
             + ", plus the spread of the published constants.")
+    rep.notes += [str(a) for a in result.get("assumptions") or [] if str(a) not in rep.notes]
 
 
 def _count(findings: list[FindingView]) -> str:
     if not findings:
         return "no findings"
     by = {s: sum(1 for f in findings if f.severity == s) for s in ("danger", "warning", "note")}
-    return ", ".join(f"{n} {s}" for s, n in by.items() if n)
+    return ", ".join(f"{n} {s}{'s' if n != 1 else ''}" for s, n in by.items() if n)
 
 
 def _swap(result: dict, catalog: Any) -> Report:
@@ -523,11 +598,21 @@ def _swap(result: dict, catalog: Any) -> Report:
     nets = [build_network(new.get("values"), nfam, mode, catalog, "new.")]
     rep.networks = [n for n in nets if n]
     trig = result.get("trigger") or new.get("trigger")
+    pol = (result.get("pin_map") or {}).get("polarity") if isinstance(result.get("pin_map"), dict) else None
+    edge = (pol.get("edge") if isinstance(pol, dict) else None) or _catalog_edge(catalog, nfam)
     rep.waves = build_waves(new.get("timing"), trig, mode=mode, name=f"{nfam} output",
-                            old=(f"{ofam} output", old.get("timing"), old.get("trigger")))
+                            old=(f"{ofam} output", old.get("timing"), old.get("trigger")), edge=edge)
     rep.findings = findings_of(result.get("findings"))
-    rep.pin_map = table_of(result.get("pin_map"), ("channel", "function", "old_pin", "new_pin", "old", "new", "note"))
+    rep.pin_map, rep.pin_tables, rep.pin_notes = pin_tables(result.get("pin_map"))
     rep.rework = rework_steps(result.get("rework"))
+    rep.notes[:0] = [str(r) for r in result.get("reasons") or []]
+    kept = result.get("kept")
+    if isinstance(kept, dict) and kept.get("quantity") in _UNITS:
+        q = kept["quantity"]
+        rep.facts.insert(0, quantity(f"{q} to keep ({kept.get('basis', 'old circuit')})", kept.get("value"), _UNITS[q], "kept.value"))
+    if _num(result.get("error")) is not None:
+        rep.facts.append(quantity("error against the kept value", result["error"], "%", "error"))
+    rep.notes += [str(a) for a in result.get("assumptions") or []]
     nomw = [q for q in rep.facts if q.key.endswith("nominal.width") or q.key.endswith("nominal.period")]
     rep.lead = (f"{nfam} in place of {ofam}: {cls or 'unclassified'}"
                 + (f"; new nominal {nomw[0].label} {nomw[0].text}" if nomw else "") + f"; {_count(rep.findings)}; "
@@ -570,7 +655,10 @@ def _alternates(result: dict, catalog: Any) -> Report:
                                 mode=mode, name=f"{fam} output",
                                 old=(f"{ofam} output", old.get("timing"), old.get("trigger")) if isinstance(old, dict) else None)
         rep.findings = findings_of(best.get("findings"))
-        rep.pin_map = table_of(best.get("pin_map"), ("channel", "function", "old_pin", "new_pin", "old", "new", "note"))
+        if isinstance(best.get("pin_map"), dict):
+            rep.pin_map, rep.pin_tables, rep.pin_notes = pin_tables(best["pin_map"])
+        elif isinstance(best.get("pairs"), dict):
+            rep.pin_map = Table(("old pin", "new pin"), tuple((str(k), str(v)) for k, v in best["pairs"].items()))
         rep.rework = rework_steps(best.get("rework"))
         rep.notes.append(f"Pictures, findings and bench steps below are for the first candidate, {fam}.")
     rep.lead = f"{len(cands)} candidate{'s' if len(cands) != 1 else ''} for {ofam}" + (
@@ -582,22 +670,41 @@ def _alternates(result: dict, catalog: Any) -> Report:
 
 
 def _bom(result: dict, catalog: Any) -> Report:
-    rows = result.get("rows") or result.get("lines") or []
-    rep = Report("bom", "Bill of materials review", "")
+    """BOM review: the summary by status, then every line (its part cell, status,
+    family, best alternate and key findings); findings of every line by severity."""
+    rows = [r for r in result.get("rows") or [] if isinstance(r, dict)]
+    src = result.get("file")
+    rep = Report("bom", "Bill of materials review" + (f": {str(src).rsplit('/', 1)[-1]}" if src else ""), "")
     summary = result.get("summary")
     if isinstance(summary, dict):
-        by = summary.get("by_status", summary)
-        rep.extra_tables.append(("Lines by status", Table(("status", "lines"), tuple((str(k), _text(v)) for k, v in by.items()))))
-    table = table_of(rows, ("row", "line", "part", "family", "score", "status", "alternates", "findings", "reason"))
-    if table:
-        rep.extra_tables.append(("Every line", table))
-    fams = sorted({str(r.get("family")) for r in rows if isinstance(r, dict) and r.get("family")})
+        rep.extra_tables.append(("Lines by status", Table(("status", "lines"), tuple((str(k), _text(v)) for k, v in summary.items()))))
+    pcol = result.get("part_column")
+    table_rows = []
     for r in rows:
-        if isinstance(r, dict):
-            for f in findings_of(r.get("findings") if isinstance(r.get("findings"), list) else []):
+        cells = r.get("cells") if isinstance(r.get("cells"), dict) else {}
+        part = str(cells.get(pcol, "")) if isinstance(pcol, str) else ""
+        alts = "; ".join(f"{a.get('family')} ({a.get('class')})" for a in r.get("alternates") or [] if isinstance(a, dict))
+        score = _num(r.get("score"))
+        table_rows.append((str(r.get("line", "")), part, str(r.get("status") or ""), str(r.get("family") or ""),
+                           "" if score is None else f"{score:.0f}", alts,
+                           _count(findings_of(r.get("findings") if isinstance(r.get("findings"), list) else [])),
+                           str(r.get("reason") or "")))
+    rep.extra_tables.append(("Every line", Table(
+        ("line", f"part ({pcol})" if isinstance(pcol, str) else "part", "status", "family", "match score",
+         "alternates (class)", "findings", "reason"), tuple(table_rows))))
+    fams = sorted({str(r.get("family")) for r in rows if r.get("family")})
+    seen: set[tuple] = set()
+    for r in rows:
+        for f in findings_of(r.get("findings") if isinstance(r.get("findings"), list) else []):
+            key = (f.rule, f.part, f.message)
+            if key not in seen:  # a BOM repeats lines: show each finding once
+                seen.add(key)
                 rep.findings.append(f)
     rep.findings.sort(key=lambda f: SEVERITY_ORDER.get(f.severity, 9))
-    rep.lead = f"{len(rows)} line{'s' if len(rows) != 1 else ''} reviewed; {len(fams)} timer or one-shot famil{'ies' if len(fams) != 1 else 'y'} recognised."
+    if _num(result.get("new_vcc")):
+        rep.facts.append(quantity("new supply", result["new_vcc"], "V", "new_vcc"))
+    rep.lead = (f"{len(rows)} line{'s' if len(rows) != 1 else ''} reviewed; {len(fams)} timer or one-shot "
+                f"famil{'ies' if len(fams) != 1 else 'y'} recognised; {_count(rep.findings)}.")
     rep.cautions = _cautions(fams, catalog, [])
     rep.sources = sources_of(result, fams, catalog)
     return rep

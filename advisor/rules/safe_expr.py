@@ -193,7 +193,7 @@ class _Compiler:
         if v is None or isinstance(v, bool):
             return lambda env, v=v: v
         if isinstance(v, (int, float)):
-            if not math.isfinite(float(v)) or abs(v) > MAX_NUMBER:
+            if abs(v) > MAX_NUMBER or not math.isfinite(float(v)):
                 raise self.fail(node, f"number {v!r} is out of range")
             f = float(v)
             return lambda env, f=f: f
@@ -230,6 +230,9 @@ class _Compiler:
         op = _BINOPS.get(type(node.op))
         if op is None:
             raise self.fail(node, f"operator '{type(node.op).__name__}' is not allowed (use + - * / **)")
+        for side in (node.left, node.right):
+            if isinstance(side, ast.Constant) and isinstance(side.value, str):
+                raise self.fail(node, "arithmetic on text is not allowed")
         left = self.build(node.left, depth)
         right = self.build(node.right, depth)
         if isinstance(node.op, ast.Pow):

@@ -6,7 +6,9 @@ the supply lies in its recommended range. Each such family gets a full
 :func:`advisor.substitute.swap.swap`; the ``unsuitable`` ones and the families that
 fail are listed under ``rejected`` with the reason. Ranking, best first: class
 (:data:`CLASS_ORDER`), then the size of the timing error, then the number of rework
-steps, then the findings (dangers, then warnings, then notes).
+steps, then the findings (dangers, then warnings, then notes), then active
+parts before obsolete ones. Timing errors inside the circuit's tolerance (5 %
+by default) count as equal: E24 rounding, not the part, makes them.
 """
 
 from __future__ import annotations
@@ -24,13 +26,18 @@ CAN_DO = {
 }
 
 
-def rank_key(result) -> tuple:
+def rank_key(result, tolerance: float = 0.05) -> tuple:
+    """Sort key: class, timing error (errors inside the tolerance count as equal: E24
+    rounding, not the part, makes them), rework steps, findings, then active parts
+    before obsolete ones."""
     counts = result.severity_counts()
+    err = abs(result.error) if result.error is not None else 1.0
     return (
         CLASS_ORDER.index(result.cls),
-        abs(result.error) if result.error is not None else 1.0,
+        int(err / tolerance) if tolerance > 0 else err,
         len(result.rework),
         counts["danger"], counts["warning"], counts["note"],
+        {"active": 0, "nrnd": 1, "unknown": 2, "obsolete": 3}.get(result.new.status, 2),
         result.new.family,
     )
 
@@ -70,7 +77,7 @@ def alternates(
             rejected.append(Rejected(fam.id, "; ".join(r.verdict.reasons)))
             continue
         results.append(r)
-    results.sort(key=rank_key)
+    results.sort(key=lambda r: rank_key(r, circuit.r_tolerance))
     assumptions = []
     if new_vcc is None:
         assumptions.append(f"candidates at the old supply, {vcc:g} V (give --new-vcc to move it)")

@@ -84,6 +84,15 @@ def is_555(fam: Family) -> bool:
     return fam.function == "timer-555"
 
 
+def network_kind(fam: Family) -> str:
+    """How the timing network connects: ``555`` (divider taps THRES/DIS), ``4047``
+    (R and C from a common RC pin), ``4541`` (oscillator pins), or ``rc-pins``
+    (one-shots: C across Cext–Rext/Cext, R from Rext/Cext to the supply)."""
+    if is_555(fam):
+        return "555"
+    return {"cd4047": "4047", "cd4541": "4541"}.get(fam.timing.law, "rc-pins")
+
+
 @dataclass(frozen=True)
 class PinLink:
     """One net moved from an old pin to a new pin."""
@@ -369,11 +378,13 @@ def map_pins(
     uses_internal_r: bool = False,
     old_package: str | None = None,
     new_package: str | None = None,
+    assume_edge: bool = True,
 ) -> PinMap:
     """Map every old pin to the new part, channel by channel.
 
     ``edge`` is the active trigger edge of the circuit (``rising``/``falling``);
-    when None the old part's first listed trigger is assumed and the map says so.
+    when None the old part's first listed trigger is assumed and the map says so
+    (``assume_edge=False``, for astables, maps trigger pins by function instead).
     ``uses_internal_r`` tells that the old board times with the old part's internal
     resistor (no external Rext), so a new part without one needs an added resistor.
     """
@@ -384,11 +395,11 @@ def map_pins(
     ties: list[PinTie] = []
     unmatched: list[Unmatched] = []
     additions: list[Addition] = []
-    cross_kind = is_555(old) != is_555(new)
+    cross_kind = network_kind(old) != network_kind(new)
 
     # --- trigger polarity -------------------------------------------------------
     assumed = False
-    if edge is None and old.behaviour.triggers:
+    if edge is None and assume_edge and old.behaviour.triggers:
         edge = _edge_name(old.behaviour.triggers[0].edge)
         assumed = True
     old_active = new_active = None
@@ -485,7 +496,7 @@ def map_pins(
                 notes.append(f"{new.id} {p.name} (pin {p.pin}) is a second {p.function} pin: connect it too")
 
     if cross_kind:
-        notes.append(f"{old.id} and {new.id} time with different networks ({old.function} vs {new.function}): "
+        notes.append(f"{old.id} and {new.id} time with different networks ({network_kind(old)} vs {network_kind(new)}): "
                      "the timing network is rebuilt around the new part")
     if old.behaviour.triggers and len([t for t in old.behaviour.triggers if t.function == "TRIG_FALL"]) > 1:
         notes.append(f"{old.id} gates several falling-edge inputs; if the board drives more than one of them, "
@@ -590,7 +601,22 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
 
 
 def _map_trigger(old, new, p, ch, new_ch, old_active, new_active, new_pins, link, unmatched) -> None:
-    """The active trigger's net goes to the new active input; other old trigger pins were enable ties."""
+    """The active trigger's net goes to the new active input; other old trigger pins were enable ties.
+
+    With no active edge (an astable's TRIG tied to THRES) pins map by function.
+    """
+    if old_active is None:
+        cand = new_pins(p.function, new_ch)
+        for rel in RELATED.get(p.function, ()) if not cand else ():
+            cand = new_pins(rel, new_ch)
+            if cand:
+                break
+        if cand:
+            link(p, cand[0])
+        else:
+            unmatched.append(Unmatched(p.pin, p.name, p.function, ch, f"no {p.function} input on {new.id}",
+                                       blocking=True))
+        return
     if old_active is not None and p.function == old_active.function:
         if new_active is None:
             unmatched.append(Unmatched(p.pin, p.name, p.function, ch,

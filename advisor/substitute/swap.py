@@ -22,7 +22,7 @@ from advisor.errors import InputError, RetimeError
 from advisor.findings import Finding, sort_findings
 from advisor.parts import Family
 from advisor.substitute.classify import SwapFacts, classify
-from advisor.substitute.pinmap import is_555, map_pins
+from advisor.substitute.pinmap import map_pins, network_kind
 from advisor.substitute.result import PartSide, SwapResult
 from advisor.substitute.rework import changed_values, plan_rework
 
@@ -35,8 +35,8 @@ DESIGN_GOAL = 0.02
 _VALUE_SEVERITIES = ("danger", "warning")
 
 #: Danger rules a level shifter (a named redesign step) resolves: the trigger's high
-#: level against the new part's supply. Matched on the rule id's words.
-_LEVEL_WORDS = ("trigger-high", "trigger-level", "input-above", "level-shift", "overdrive")
+#: level against the new part's supply or input threshold (rules/interface.yaml).
+_LEVEL_RULES = frozenset({"trigger-above-supply", "trigger-below-vih"})
 
 
 def _analyse(family: Family, circuit: Circuit):
@@ -153,7 +153,7 @@ def swap(
     # --- values: keep them when they keep the pulse, else design -----------------
     chosen = None  # (circuit, how)
     design_info: dict = {"series": series, "goal": DESIGN_GOAL, "tolerance": tol}
-    same_network = not uses_rint and is_555(old) == is_555(new) and old.timing.law != "cd4541"
+    same_network = not uses_rint and network_kind(old) == network_kind(new)
     if same_network:
         try:
             asis = _analyse(new, base)
@@ -212,7 +212,7 @@ def swap(
 
     edge = circuit.trigger.edge
     pm = map_pins(old, new, edge=edge, uses_internal_r=uses_rint,
-                  old_package=old_package, new_package=new_package)
+                  old_package=old_package, new_package=new_package, assume_edge=mode == "mono")
     behaviour, resolved = _behaviour_changes(old, new, old_t, new_t, circuit, vcc, findings, mode)
 
     old_values = dict(old_t.values)
@@ -228,7 +228,7 @@ def swap(
     rework = plan_rework(pm, old_values, new_t.values, expected=new_t.timing["nominal"], mode=mode)
     if pm.polarity.assumed:
         assumptions.append(pm.polarity.note.split("; ")[-1])
-    if circuit.trigger.high is None and old_vcc is not None and abs(vcc - old_vcc) > 1e-9:
+    if mode == "mono" and circuit.trigger.high is None and old_vcc is not None and abs(vcc - old_vcc) > 1e-9:
         assumptions.append(
             f"the trigger source is assumed to move to {vcc:g} V with the part; if it stays at {old_vcc:g} V, "
             "give --trigger-high to check the levels")
@@ -287,7 +287,8 @@ def _behaviour_changes(old, new, old_t, new_t, circuit, vcc, findings, mode) -> 
             reasons.append(f"the trigger's {high:g} V high is below {new.id}'s {vih:.2g} V input threshold: "
                            "a level shifter or a TTL-compatible (HCT-type) part is needed")
         if reasons:
-            resolved |= {f.rule for f in findings if any(w in f.rule for w in _LEVEL_WORDS)}
-    if is_555(old) != is_555(new):
-        reasons.append(f"{old.id} ({old.function}) and {new.id} ({new.function}) use different timing networks")
+            resolved |= {f.rule for f in findings if f.rule in _LEVEL_RULES}
+    if network_kind(old) != network_kind(new):
+        reasons.append(f"{old.id} and {new.id} use different timing networks "
+                       f"({network_kind(old)} vs {network_kind(new)}): the network is rebuilt")
     return reasons, resolved

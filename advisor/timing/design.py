@@ -134,7 +134,15 @@ def design(
             f"R {format_eng(r_lo, 'Ω')}..{format_eng(r_hi, 'Ω')} and C {format_eng(c_lo, 'F')}..{format_eng(c_hi, 'F')}",
             hint="try another part or a counter-based timer",
         )
-    cands.sort(key=lambda cd: (not cd.kept_c, not _covers(cd, window), abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0)))
+    # The existing capacitor wins when its network is as good as the series allows
+    # (error within the series' tolerance); otherwise the smallest error wins.
+    step = eseries.tolerance(series)
+
+    def score(cd: Candidate) -> tuple:
+        err = abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0)
+        return (not _covers(cd, window), err > step, not cd.kept_c, err)
+
+    cands.sort(key=score)
     seen, unique = set(), []
     for cd in cands:
         key = tuple(sorted((k, v) for k, v in cd.values.items() if isinstance(v, float)))
@@ -238,14 +246,15 @@ def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, var
         ra = rb / 10
     ra = max(ra, r_lo)
     if not variable:
-        ra_s = eseries.nearest(series, ra)
-        if ra_s < r_lo:
-            ra_s = eseries.next_up(series, r_lo * 0.9999999)
-        rb_ideal = _solve(lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q], t_goal)
-        if rb_ideal <= 0 or ra_s + rb_ideal > r_hi:
-            return []
-        rbs = {eseries.next_down(series, rb_ideal * 1.0000001), eseries.next_up(series, rb_ideal * 0.9999999)}
-        return [{"ra": ra_s, "rb": rb_s} for rb_s in sorted(rbs)]
+        nets = []
+        ras = {eseries.next_down(series, ra * 1.0000001), eseries.next_up(series, ra * 0.9999999)}
+        for ra_s in sorted(v for v in ras if v >= r_lo * (1 - 1e-9)):
+            rb_ideal = _solve(lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q], t_goal)
+            if rb_ideal <= 0 or ra_s + rb_ideal > r_hi:
+                continue
+            rbs = {eseries.next_down(series, rb_ideal * 1.0000001), eseries.next_up(series, rb_ideal * 0.9999999)}
+            nets += [{"ra": ra_s, "rb": rb_s} for rb_s in sorted(rbs)]
+        return nets
     ra_s = max(eseries.nearest(series, ra), eseries.next_up(series, r_lo * 0.9999999))
     ev = lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q]  # noqa: E731
     return _variable(ev, model.with_params(ra=ra_s), circuit, t_goal, window, series, 1.0, r_hi - ra_s, "rb", {"ra": ra_s})

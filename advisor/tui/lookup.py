@@ -16,7 +16,7 @@ from advisor.tui.sheet import render_sheet
 
 
 #: Characters of a result line that fit the families list (see #lookup-left in the .tcss).
-PROMPT_WIDTH = 40
+PROMPT_WIDTH = 36
 
 
 def _hit_prompt(hit) -> Text:
@@ -46,7 +46,7 @@ class LookupScreen(Screen):
         with Horizontal(id="lookup"):
             with Vertical(id="lookup-left"):
                 yield Static("Part number", classes="field-label")
-                yield Input(placeholder="what is printed on the chip, e.g. SN74LS221N", id="query")
+                yield Input(placeholder="as printed, e.g. SN74LS221N", id="query")
                 yield Static("", id="lookup-note")
                 yield OptionList(id="results")
             with VerticalScroll(id="sheet-pane"):

@@ -1,0 +1,57 @@
+"""`retime alternates OLD [circuit options] [--new-vcc V]`: ranked replacement candidates."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+NAME = "alternates"
+HELP = "every catalog family that can do the old part's job at the (new) supply, ranked"
+DESCRIPTION = (
+    "Run a swap for every catalog family that can make the old circuit's pulse (or clock) at the "
+    "supply, and rank them: class first (drop-in, drop-in-new-values, rewire, redesign), then the "
+    "timing error (errors inside the tolerance count as equal), the number of rework steps and the findings. Families that "
+    "cannot do the job at this supply are listed with the reason."
+)
+
+
+def register(p: argparse.ArgumentParser) -> None:
+    from advisor.cli.options import add_circuit_options, add_new_vcc_option
+
+    p.add_argument("old", metavar="OLD", help="the part on the board (family id or part number)")
+    add_circuit_options(p, targets=False)
+    add_new_vcc_option(p)
+    p.add_argument("--limit", type=int, default=10, metavar="N", help="show the best N candidates (0: all; default 10)")
+    p.add_argument("--series", default="E24", metavar="E24", help="E-series for new resistor values (default E24)")
+    try:
+        from advisor.cli.options import add_report_option
+
+        add_report_option(p)
+    except ImportError:
+        pass
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import circuit_from_args, new_vcc_from_args
+    from advisor.cli.output import catalog_for, emit_json
+    from advisor.errors import InputError
+    from advisor.substitute.alternates import alternates
+    from advisor.substitute.text import render_alternates
+
+    if args.limit < 0:
+        raise InputError("--limit: give 0 (all) or a positive number", got=args.limit)
+    catalog = catalog_for(args)
+    old = catalog.resolve(args.old)
+    result = alternates(catalog, old.id, circuit_from_args(args, old.id), new_vcc=new_vcc_from_args(args),
+                        limit=args.limit, series=args.series)
+    try:
+        from advisor.cli.options import write_report_if_asked
+
+        write_report_if_asked(args, result, "alternates")
+    except ImportError:
+        pass
+    if args.json:
+        emit_json(result.to_json())
+    else:
+        sys.stdout.write(render_alternates(result.to_json()))
+    return 0

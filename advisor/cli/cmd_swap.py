@@ -1,0 +1,57 @@
+"""`retime swap OLD NEW [circuit options] [--new-vcc V]`: replace one part by another."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+NAME = "swap"
+HELP = "replace a timer or one-shot: new values, pin map, rework steps, class and findings"
+DESCRIPTION = (
+    "Keep the pulse (or the frequency and duty) the old circuit made -- the measured one when "
+    "--measured-* is given -- on the NEW part at the new supply: standard values (the existing "
+    "capacitor kept when possible), findings for both parts, the pin map channel by channel with "
+    "the trigger edge carried to the right input, the ordered bench steps, and the class: drop-in, "
+    "drop-in-new-values, rewire, redesign or unsuitable."
+)
+
+
+def register(p: argparse.ArgumentParser) -> None:
+    from advisor.cli.options import add_circuit_options, add_new_vcc_option
+
+    p.add_argument("old", metavar="OLD", help="the part on the board (family id or part number), e.g. SN74121N")
+    p.add_argument("new", metavar="NEW", help="the part to fit instead, e.g. 74HC221")
+    add_circuit_options(p, targets=False)
+    add_new_vcc_option(p)
+    p.add_argument("--series", default="E24", metavar="E24", help="E-series for new resistor values (default E24)")
+    p.add_argument("--old-package", metavar="PKG", help="the old part's package, e.g. DIP-14 (default: its first)")
+    p.add_argument("--new-package", metavar="PKG", help="the new part's package (default: the one closest to the old)")
+    try:
+        from advisor.cli.options import add_report_option
+
+        add_report_option(p)
+    except ImportError:  # the report helper's option is optional here
+        pass
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import circuit_from_args, new_vcc_from_args
+    from advisor.cli.output import catalog_for, emit_json
+    from advisor.substitute.swap import swap
+    from advisor.substitute.text import render_swap
+
+    catalog = catalog_for(args)
+    old = catalog.resolve(args.old)
+    result = swap(catalog, old.id, args.new, circuit_from_args(args, old.id), new_vcc=new_vcc_from_args(args),
+                  series=args.series, old_package=args.old_package, new_package=args.new_package)
+    try:
+        from advisor.cli.options import write_report_if_asked
+
+        write_report_if_asked(args, result, "swap")
+    except ImportError:
+        pass
+    if args.json:
+        emit_json(result.to_json())
+    else:
+        sys.stdout.write(render_swap(result.to_json()))
+    return 0
