@@ -24,10 +24,12 @@ ADDED_COLUMNS = (
     "retime_status", "retime_family", "retime_score", "retime_best_alternate", "retime_best_class",
     "retime_alternates", "retime_findings", "retime_reason",
 )
-#: Recognition scores at or above this are taken as the family; between the two, a
-#: human should confirm; below, the line is out of scope. Scores are 0..100.
-SURE_SCORE = 90.0
-MAYBE_SCORE = 80.0
+#: A rule-based match (exact or normalised: prefixes and suffixes read by rule) is
+#: taken as the family. A fuzzy (typo) match at or above MAYBE_SCORE is offered for a
+#: human to confirm; below it the line is out of scope. 74HC125 (a buffer) scores
+#: 85.7 against 74HC123 and must stay out of scope; 74HC1223 (a doubled digit)
+#: scores 87.5 and is worth a question. Scores are 0..100.
+MAYBE_SCORE = 87.0
 
 
 @dataclass
@@ -146,7 +148,7 @@ def _review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit) -> R
     if not query:
         return RowReview(i, "no-part-number", reason="part-number cell is empty")
     found = matches.get(query) or []
-    if not found or found[0].score < MAYBE_SCORE:
+    if not found or (found[0].how == "fuzzy" and found[0].score < MAYBE_SCORE):
         return RowReview(i, "out-of-scope", reason="not a timer or one-shot in the catalog")
     best = found[0]
     try:
@@ -162,7 +164,7 @@ def _review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit) -> R
     if key not in cache:
         cache[key] = _alternates_for(fam, supply, r, rb, c, new_vcc, catalog, limit)
     base = cache[key]
-    status = "reviewed" if best.score >= SURE_SCORE else "check-match"
+    status = "reviewed" if best.how != "fuzzy" else "check-match"
     reason = base.reason
     if status == "check-match":
         reason = f"closest family {best.family} at score {best.score:.0f}: confirm the part number" + (f"; {reason}" if reason else "")

@@ -21,12 +21,9 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("--new-vcc", metavar="V", help="the supply the board moves to (V)")
     p.add_argument("--vcc", metavar="V", help="supply for lines without a supply column (default 5 V where the part runs there)")
     p.add_argument("--limit", type=int, default=3, help="alternates kept per line (default 3)")
-    try:
-        from advisor.cli.options import add_report_option
+    from advisor.cli.options import add_report_option
 
-        add_report_option(p)
-    except ImportError:
-        pass
+    add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -49,12 +46,9 @@ def run(args: argparse.Namespace) -> int:
         bar.close()
     if args.output:
         write_bom(res, args.output)
-    try:
-        from advisor.cli.options import write_report_if_asked
+    from advisor.cli.options import write_report_if_asked
 
-        write_report_if_asked(args, res, "bom")
-    except ImportError:
-        pass
+    write_report_if_asked(args, res, "bom")
     if args.json:
         emit_json(res.to_json())
     else:

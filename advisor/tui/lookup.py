@@ -56,16 +56,17 @@ class LookupScreen(Screen):
     def on_mount(self) -> None:
         self.query_one("#sheet-pane").border_title = "Family sheet"
         self.query_one("#results").border_title = "Families"
-        cat = self.app.catalog
-        note = self.query_one("#lookup-note", Static)
-        if cat.problems:
-            note.update(Text(f"{len(cat.problems)} catalog problem(s): run 'retime catalog check'", style=STYLE["warning"]))
-        start = getattr(self.app, "start_part", None) or ""
+        self.query_one("#lookup-note", Static).update(Text("reading the catalog …", style=STYLE["dim"]))
         query = self.query_one("#query", Input)
+        start = getattr(self.app, "start_part", None) or ""
         if start:
             query.value = start
-        self.refresh_results(query.value)
         query.focus()
+        # Paint the desk first, read the catalog just after: the first screen shows at once.
+        self.set_timer(0.01, self._first_fill)
+
+    def _first_fill(self) -> None:
+        self.refresh_results(self.query_one("#query", Input).value)
 
     def on_input_changed(self, event: Input.Changed) -> None:
         if event.input.id == "query":
@@ -77,6 +78,7 @@ class LookupScreen(Screen):
         results.clear_options()
         results.add_options([Option(_hit_prompt(h), id=h.family) for h in hits])
         note = self.query_one("#lookup-note", Static)
+        problems = self.app.catalog.problems
         if problem:
             note.update(Text(problem, style=STYLE["warning"]))
         elif text.strip():
@@ -86,7 +88,10 @@ class LookupScreen(Screen):
                 msg += f" · no exact match; nearest {best.family}"
             note.update(Text(msg + " · Enter checks it, Ctrl+N takes it as the replacement", style=STYLE["dim"]))
         else:
-            note.update(Text(f"{len(hits)} families in the catalog", style=STYLE["dim"]))
+            line = Text(f"{len(hits)} families in the catalog", style=STYLE["dim"])
+            if problems:
+                line.append(f" · {len(problems)} catalog problem(s): run 'retime catalog check'", style=STYLE["warning"])
+            note.update(line)
         if hits:
             results.highlighted = 0
             self.show_sheet(hits[0].family)

@@ -33,7 +33,6 @@ TAU_BW = 0.2e-6  # s, scope/probe bandwidth time constant (about 0.8 MHz)
 # the one-shot's discharge switch gets 10 Ω so C empties in ~0.1 µs without stalling the step control.
 _SWITCHES = """
 .model swcap sw vt={vt} vh={vh} ron=1e-4 roff=1e12
-.model swlatch sw vt=0 vh=0.5 ron=1e-4 roff=1e12
 .model swdis sw vt=2.5 vh=0.5 ron=10 roff=1e12
 """
 
@@ -75,7 +74,7 @@ Cbw ch1 0 {TAU_BW / 1e3} ic=0
 
 def one_shot(r: float, c: float, trigger_period: float, *, triggers: int = 12, retriggerable: bool = False,
              trigger_width: float = 2e-6) -> Simulated:
-    """One-shot: a trigger pulse sets a latch (a switch with hysteresis) that lets C charge
+    """One-shot: a trigger pulse sets a latch (B-source with positive feedback) that lets C charge
     through R from 0 V; at 2/3 VCC the latch resets and C is discharged. Non-retriggerable:
     triggers during the pulse are ignored. Retriggerable: each trigger also discharges C."""
     width = math.log(3) * r * c
@@ -85,10 +84,11 @@ def one_shot(r: float, c: float, trigger_period: float, *, triggers: int = 12, r
     body = f"""
 Vcc vcc 0 {VCC}
 Vtrig trig 0 PULSE(0 {VCC} {trigger_period / 10} 20n 20n {trigger_width} {trigger_period})
-* latch control: +1 while the trigger is high, -1 once C passes 2/3 VCC (switch holds in between)
-Bctl ctl 0 V = v(trig)/{VCC} - 0.5*(1 + tanh((v(cap) - {vth})/5e-3))
-Slatch vcc q ctl 0 swlatch OFF
-Rq q 0 1k
+* set/reset latch: q = VCC*sigmoid(set + q_fed_back - reset - 1/2); set = trigger high,
+* reset = C above 2/3 VCC; a 5 ns RC in the feedback keeps the loop well defined
+Brs q 0 V = {VCC}*0.5*(1 + tanh(20*(v(trig)/{VCC} + v(qf)/{VCC} - 0.5*(1 + tanh((v(cap) - {vth})/1e-3)) - 0.5)))
+Rf q qf 1k
+Cf qf 0 5p ic=0
 Rt vcc cap {r}
 Ct cap 0 {c} ic=0
 Bdis dctl 0 V = {discharge}
