@@ -64,7 +64,7 @@ def test_mixed_bom_keeps_every_row_in_order(tmp_path, catalog):
     assert by_ref["U4"].status == "unreadable" and "cells" in by_ref["U4"].reason
     assert by_ref["U1"].alternates, "a timer line gets alternates"
     out = write_bom(res, tmp_path / "out.csv")
-    rows = list(csv.reader(out.open(encoding="utf-8")))
+    rows = list(csv.reader(out.read_text(encoding="utf-8").splitlines()))
     assert len(rows) == len(MIXED)
     assert rows[0][: len(MIXED[0])] == MIXED[0]
     assert rows[0][len(MIXED[0]) :] == list(ADDED_COLUMNS)
@@ -127,7 +127,7 @@ def test_every_output_format_has_every_row(tmp_path, catalog, ext):
     res = review_bom(read_table(src), catalog)
     out = write_bom(res, tmp_path / f"out{ext}")
     if ext == ".csv":
-        assert len(list(csv.reader(out.open()))) == len(MIXED)
+        assert len(list(csv.reader(out.read_text(encoding="utf-8").splitlines()))) == len(MIXED)
     elif ext == ".xlsx":
         back = read_table(out)
         assert len(back.rows) == len(MIXED) and back.rows[1][2] == "SN74LS221N"

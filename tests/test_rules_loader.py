@@ -244,3 +244,31 @@ def test_old_part_supply_is_checked_in_a_swap():
 
 def test_evaluate_without_parts_returns_nothing():
     assert evaluate({}) == []
+
+
+# --- the command ------------------------------------------------------------------
+
+def test_rules_command_json_contract(capsys):
+    import json
+
+    from advisor.cli.main import main
+
+    assert main(["rules", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert len(data["rules"]) >= 20
+    for r in data["rules"]:
+        assert {"id", "severity", "title", "source"} <= set(r)
+        assert r["severity"] in ("danger", "warning", "note")
+
+
+def test_rules_command_check_and_broken_folder(tmp_path, capsys):
+    from advisor.cli.main import main
+
+    assert main(["rules", "--check"]) == 0
+    assert "example cases: ok" in capsys.readouterr().out
+    write(tmp_path, "a.yaml", "topic: t\nrules:\n" + GOOD.format(id="bad", cond="part.__class__"))
+    assert main(["rules", "--check", "--rules", str(tmp_path)]) == 1
+    err = capsys.readouterr().err
+    assert "a.yaml: rule bad: condition: name 'part.__class__'" in err
+    assert main(["rules", "--rules", str(tmp_path)]) == 1  # listing refuses a broken set, one line
+    assert "rule bad: condition" in capsys.readouterr().err

@@ -35,7 +35,7 @@ MIN_SWING_TO_NOISE = 6.0
 class Levels:
     low: float  # V
     high: float  # V
-    noise: float  # V, robust standard deviation within the levels
+    noise: float  # V, robust standard deviation on the quieter level
 
     @property
     def swing(self) -> float:
@@ -76,7 +76,8 @@ def robust_levels(v: np.ndarray) -> Levels:
         return Levels(float(lo0), float(hi0), float("inf"))
     low = float(np.median(below))
     high = float(np.median(above))
-    mad = max(float(np.median(np.abs(below - low))), float(np.median(np.abs(above - high))))
+    # The quieter level sets the noise figure: ringing on a short pulse may fill its whole level.
+    mad = min(float(np.median(np.abs(below - low))), float(np.median(np.abs(above - high))))
     return Levels(low, high, 1.4826 * mad)
 
 

@@ -83,6 +83,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("limit_width_max", "number", "s", "longest pulse the datasheet specifies"),
     _v("r_internal", "number", "Ω", "on-chip timing resistor, if any"),
     _v("has_r_internal", "bool", "", "the part has an on-chip timing resistor"),
+    _v("uses_r_internal", "bool", "", "the circuit times with the on-chip resistor (no external R given)"),
     _v("electrolytic", "text", "", "the datasheet's note on fitting a polarised Cext"),
     _v("has_electrolytic_note", "bool", "", "the catalog has an electrolytic-Cext note for the part"),
     # law constant
@@ -325,6 +326,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "limit_width_max": _one(tim.width_max, vcc),
         "r_internal": tim.r_internal.value if tim.r_internal is not None else None,
         "has_r_internal": tim.r_internal is not None,
+        "uses_r_internal": tim.r_internal is not None and (used.get("r_internal") is True or (r is None and ra is None and not pot)),
         "electrolytic": comp.electrolytic,
         "has_electrolytic_note": comp.electrolytic is not None,
         "k": ks[0] if ks else None,

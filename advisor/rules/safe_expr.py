@@ -325,7 +325,6 @@ class _Compiler:
     def _n_Compare(self, node: ast.Compare, depth: int) -> Node:
         left = self.build(node.left, depth)
         steps: list[tuple[str, object, Node | None]] = []
-        prev_node = node.left
         for op, comp in zip(node.ops, node.comparators):
             if isinstance(op, (ast.In, ast.NotIn)):
                 steps.append(("in" if isinstance(op, ast.In) else "not in", self._literal_tuple(comp), None))
@@ -339,8 +338,6 @@ class _Compiler:
                 steps.append(("order", _ORDER[type(op)], self.build(comp, depth)))
             else:
                 raise self.fail(node, f"comparison '{type(op).__name__}' is not allowed")
-            prev_node = comp
-        del prev_node
 
         def compare(env: dict) -> bool:
             a = left(env)

@@ -16,6 +16,7 @@ from __future__ import annotations
 from advisor.circuit import Circuit
 from advisor.errors import RetimeError
 from advisor.substitute.classify import CLASS_ORDER
+from advisor.substitute.reference import with_reference
 from advisor.substitute.result import AlternatesResult, Rejected
 from advisor.substitute.swap import _analyse, _side, kept_quantity, swap
 
@@ -53,6 +54,7 @@ def alternates(
 ) -> AlternatesResult:
     """Ranked candidates for replacing ``old_query`` in ``circuit`` (see the module docstring)."""
     old = catalog.resolve(old_query)
+    circuit, reference_note = with_reference(circuit)
     old_c = circuit.with_(part=old.id)
     old_t = _analyse(old, old_c)
     vcc = new_vcc if new_vcc is not None else old_t.values.get("vcc")
@@ -78,7 +80,7 @@ def alternates(
             continue
         results.append(r)
     results.sort(key=lambda r: rank_key(r, circuit.r_tolerance))
-    assumptions = []
+    assumptions = [reference_note] if reference_note else []
     if new_vcc is None:
         assumptions.append(f"candidates at the old supply, {vcc:g} V (give --new-vcc to move it)")
     return AlternatesResult(

@@ -23,6 +23,7 @@ from advisor.findings import Finding, sort_findings
 from advisor.parts import Family
 from advisor.substitute.classify import SwapFacts, classify
 from advisor.substitute.pinmap import map_pins, network_kind
+from advisor.substitute.reference import with_reference
 from advisor.substitute.result import PartSide, SwapResult
 from advisor.substitute.rework import changed_values, plan_rework
 
@@ -124,12 +125,14 @@ def swap(
     """
     old = catalog.resolve(old_query)
     new = catalog.resolve(new_query)
+    circuit, reference_note = with_reference(circuit)
     old_c = circuit.with_(part=old.id)
     old_t = old_result if old_result is not None else _analyse(old, old_c)
     mode = old_t.mode
     old_vcc = old_t.values.get("vcc")
     vcc = new_vcc if new_vcc is not None else old_vcc
-    assumptions: list[str] = [f"old part: {a}" for a in old_t.assumptions]
+    assumptions: list[str] = [reference_note] if reference_note else []
+    assumptions += [f"old part: {a}" for a in old_t.assumptions]
     if circuit.vcc is None:
         assumptions.append(f"old supply {old_vcc:g} V (not given: --vcc)")
     if new_vcc is None:

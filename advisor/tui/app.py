@@ -12,6 +12,8 @@ render engine results and compute nothing themselves.
 
 from __future__ import annotations
 
+import threading
+
 from textual.app import App
 from textual.binding import Binding
 
@@ -46,19 +48,47 @@ class Workbench(App):
         self.start_bom = bom_file
         #: Fields the workspace takes over when it is next shown (set by the lookup desk).
         self.pending_fields: dict[str, str] = {}
+        self._catalog_lock = threading.Lock()
+        #: Called on the UI thread once the catalog is read (the lookup desk fills its list).
+        self.on_catalog_ready = None
 
     @property
     def catalog(self):
-        """The catalog, loaded on first use; load problems stay listed in ``problems``."""
-        if self._catalog is None:
-            from advisor.catalog import load_catalog
+        """The catalog; waits for the background read if it is still running.
 
-            self._catalog = load_catalog(self._catalog_dirs)
-        return self._catalog
+        Load problems do not stop the workbench: they stay listed in ``problems``.
+        """
+        with self._catalog_lock:
+            if self._catalog is None:
+                from advisor.catalog import load_catalog
+
+                self._catalog = load_catalog(self._catalog_dirs)
+            return self._catalog
 
     def on_mount(self) -> None:
+        if self._catalog is None:
+            # Read the catalog (and warm part-number recognition) off the UI thread, so the
+            # first screen paints at once instead of after ~0.3 s of YAML and validation.
+            threading.Thread(target=self._read_catalog, name="retime-catalog", daemon=True).start()
         if self.start_bom:
             self.switch_mode("bom")
+
+    def _read_catalog(self) -> None:
+        try:
+            cat = self.catalog
+            from advisor.tui.bridge import find_parts
+
+            find_parts(cat, "555")  # builds the recognition index once
+        except Exception:  # shown by the desks when they touch the catalog themselves
+            return
+        try:
+            self.call_from_thread(self._catalog_ready)
+        except RuntimeError:  # the app closed while the catalog was being read
+            pass
+
+    def _catalog_ready(self) -> None:
+        if self.on_catalog_ready is not None:
+            self.on_catalog_ready()
 
     def action_show_help(self) -> None:
         if not isinstance(self.screen, HelpScreen):

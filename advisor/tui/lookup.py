@@ -62,10 +62,15 @@ class LookupScreen(Screen):
         if start:
             query.value = start
         query.focus()
-        # Paint the desk first, read the catalog just after: the first screen shows at once.
-        self.set_timer(0.01, self._first_fill)
+        # The app reads the catalog in the background and calls back when it is there;
+        # with a catalog given up front (tests) fill at once.
+        if getattr(self.app, "_catalog", None) is not None:
+            self._first_fill()
+        else:
+            self.app.on_catalog_ready = self._first_fill
 
     def _first_fill(self) -> None:
+        self.app.on_catalog_ready = None
         self.refresh_results(self.query_one("#query", Input).value)
 
     def on_input_changed(self, event: Input.Changed) -> None:

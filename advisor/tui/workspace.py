@@ -142,54 +142,99 @@ def findings_view(findings: list[dict]) -> Table | Text:
     return t
 
 
-def pin_map_view(pin_map) -> Table | Text:
-    """The swap's pin map: old pin → new pin per channel, whatever list/dict shape it has."""
-    if not pin_map:
+def _pin(pin, name) -> str:
+    if pin is None:
+        return "—"
+    return f"{pin} {name}" if name else str(pin)
+
+
+def pin_map_view(pin_map) -> Group | Text:
+    """The swap's pin map: each old pin's net and the new pin it goes to, the ties the
+    new part needs, old pins with no counterpart, and the map's notes."""
+    if not isinstance(pin_map, dict) or not pin_map:
         return Text("no pin map", style=STYLE["dim"])
-    rows: list[dict] = []
-    if isinstance(pin_map, dict):
-        for k, v in pin_map.items():
-            if isinstance(v, list):
-                rows.extend({"channel": k, **x} if isinstance(x, dict) else {"channel": k, "to": x} for x in v)
-            elif isinstance(v, dict):
-                rows.append({"from": k, **v})
-            else:
-                rows.append({"from": k, "to": v})
-    elif isinstance(pin_map, list):
-        for x in pin_map:
-            if isinstance(x, dict) and isinstance(x.get("pins"), list):
-                rows.extend({"channel": x.get("channel"), **p} for p in x["pins"] if isinstance(p, dict))
-            else:
-                rows.append(x if isinstance(x, dict) else {"map": x})
-    cols: list[str] = []
-    for r in rows:
-        for k in r:
-            if k not in cols:
-                cols.append(k)
-    t = Table(box=None, pad_edge=False, padding=(0, 2, 0, 0), header_style=STYLE["dim"])
-    for c in cols:
-        t.add_column(str(c).replace("_", " "))
-    for r in rows:
-        t.add_row(*("" if r.get(c) is None else str(r.get(c)) for c in cols))
-    return t
+    out: list = []
+    head = Text()
+    head.append(f"{pin_map.get('old_package', '?')} → {pin_map.get('new_package', '?')}", style=STYLE["key"])
+    if pin_map.get("same_pins"):
+        head.append("   same pins", style=STYLE["good"])
+    elif pin_map.get("same_footprint"):
+        head.append("   same footprint, pins move", style=STYLE["warning"])
+    else:
+        head.append("   different footprint", style=STYLE["warning"])
+    out.append(head)
+    links = pin_map.get("links") or []
+    if links:
+        t = Table(box=None, pad_edge=False, padding=(0, 2, 0, 0), header_style=STYLE["dim"])
+        for col in ("ch", "function", f"old {pin_map.get('old_family', '')}".strip(), f"new {pin_map.get('new_family', '')}".strip(), ""):
+            t.add_column(col)
+        for ln in links:
+            moved = Text("moves", style=STYLE["warning"]) if ln.get("moved") else Text("")
+            t.add_row(str(ln.get("new_channel") or ln.get("old_channel") or ""), str(ln.get("function", "")),
+                      _pin(ln.get("old_pin"), ln.get("old_name")), _pin(ln.get("new_pin"), ln.get("new_name")), moved)
+        out.append(t)
+    for tie in pin_map.get("ties") or []:
+        line = Text("tie ", style=STYLE["heading"])
+        line.append(f"{_pin(tie.get('new_pin'), tie.get('new_name'))} to {tie.get('level', '?')}")
+        if tie.get("why"):
+            line.append(f": {tie['why']}", style=STYLE["dim"])
+        out.append(line)
+    for um in pin_map.get("unmatched") or []:
+        line = Text("no match ", style=STYLE["danger"] if um.get("blocking") else STYLE["warning"])
+        line.append(f"old {_pin(um.get('old_pin'), um.get('old_name'))}")
+        if um.get("what"):
+            line.append(f": {um['what']}", style=STYLE["dim"])
+        out.append(line)
+    for extra in pin_map.get("additions") or []:
+        out.append(Text(f"add: {extra.get('what', extra) if isinstance(extra, dict) else extra}", style=STYLE["key"]))
+    pol = pin_map.get("polarity")
+    if pol:
+        out.append(Text(f"trigger polarity: {pol if not isinstance(pol, dict) else '; '.join(f'{k} {v}' for k, v in pol.items())}", style=STYLE["key"]))
+    for note in pin_map.get("notes") or []:
+        out.append(Text(f"note: {note}", style=STYLE["dim"]))
+    return Group(*out)
 
 
 def rework_view(steps) -> Text:
+    """Ordered bench steps: number, action, what to do."""
     if not steps:
         return Text("no rework", style=STYLE["dim"])
     text = Text()
     for i, s in enumerate(steps, 1):
         if i > 1:
             text.append("\n")
+        n = i
         if isinstance(s, dict):
-            what = s.get("text") or s.get("step") or s.get("action") or " ".join(f"{k}: {v}" for k, v in s.items())
-            if s.get("action") and s.get("text"):
-                what = f"{s['action']}: {s['text']}"
+            n = s.get("n", i)
+            action = s.get("action")
+            what = s.get("detail") or s.get("text") or s.get("step") or ""
         else:
-            what = str(s)
-        text.append(f"{i:>2}. ", style=STYLE["heading"])
+            action, what = None, str(s)
+        text.append(f"{n:>2}. ", style=STYLE["heading"])
+        if action:
+            text.append(f"{action:<8} ", style=STYLE["output"])
         text.append(str(what))
     return text
+
+
+def swap_summary(data: dict) -> list:
+    """What the swap kept, how close the new part gets, and why it has its class."""
+    out: list = []
+    kept = data.get("kept")
+    if isinstance(kept, dict) and kept.get("quantity"):
+        q = str(kept["quantity"])
+        line = Text("kept: ", style=STYLE["dim"])
+        line.append(f"{q} {_q(q, kept.get('value'))}", style=STYLE["key"])
+        if kept.get("basis"):
+            line.append(f" ({kept['basis']})", style=STYLE["dim"])
+        err = data.get("error")
+        if isinstance(err, (int, float)):
+            line.append("   new part off by ", style=STYLE["dim"])
+            line.append(f"{err:+.1%}", style=STYLE["key"])
+        out.append(line)
+    for reason in data.get("reasons") or []:
+        out.append(Text(f"· {reason}", style=STYLE["key"]))
+    return out
 
 
 class WorkspaceScreen(Screen):
@@ -336,6 +381,7 @@ class WorkspaceScreen(Screen):
                 fam = d.get("family") or side
                 parts.append(timing_table(d.get("timing"), f"{side}: {fam}"))
                 parts.append(values_line(d.get("values")))
+            parts.extend(swap_summary(data))
             parts.extend(_extras(data))
             timing.update(Group(*parts))
             pins.update(pin_map_view(data.get("pin_map")))

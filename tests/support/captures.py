@@ -30,10 +30,10 @@ from support.ngspice import crossings, run_transient
 VCC = 5.0
 TAU_BW = 0.2e-6  # s, scope/probe bandwidth time constant (about 0.8 MHz)
 # Switch models: Ron tiny against the timing resistors, Roff huge (references.md, ngspice notes);
-# the one-shot's discharge switch gets 10 Ω so C empties in ~0.1 µs without stalling the step control.
+# the one-shot's discharge switch gets 1 Ω so C empties in ~10 ns without stalling the step control
+# (it leaves VCC*1/R on C, 0.5 mV with 10 kΩ: 0.01 % of the width).
 _SWITCHES = """
 .model swcap sw vt={vt} vh={vh} ron=1e-4 roff=1e12
-.model swdis sw vt=2.5 vh=0.5 ron=10 roff=1e12
 """
 
 
@@ -74,31 +74,35 @@ Cbw ch1 0 {TAU_BW / 1e3} ic=0
 
 def one_shot(r: float, c: float, trigger_period: float, *, triggers: int = 12, retriggerable: bool = False,
              trigger_width: float = 2e-6) -> Simulated:
-    """One-shot: a trigger pulse sets a latch (B-source with positive feedback) that lets C charge
-    through R from 0 V; at 2/3 VCC the latch resets and C is discharged. Non-retriggerable:
-    triggers during the pulse are ignored. Retriggerable: each trigger also discharges C."""
+    """One-shot, 555-monostable style. One switch with hysteresis is the memory: it discharges
+    C and holds the output low while ON. Its control is v(C) - 2*v(trigger): a trigger pulse
+    drives it below the lower switching point (OFF: output high, C charges through R from
+    0 V); C reaching 2/3 VCC drives it above the upper point (ON: output low, C emptied).
+    Between the two it holds. Non-retriggerable: a trigger during the pulse keeps it OFF, no
+    effect. Retriggerable: a second switch also empties C while the trigger is high.
+    The trigger passes a 250 ns RC first: a propagation delay (about 27 ns) as a real part has."""
     width = math.log(3) * r * c
     tstop = triggers * trigger_period
-    vth = 2 * VCC / 3
-    discharge = "5 - v(q)" if not retriggerable else "max(5 - v(q), v(trig))"
+    retrig = "Sre cap 0 trigd 0 swtrig\n" if retriggerable else ""
     body = f"""
 Vcc vcc 0 {VCC}
 Vtrig trig 0 PULSE(0 {VCC} {trigger_period / 10} 20n 20n {trigger_width} {trigger_period})
-* set/reset latch: q = VCC*sigmoid(set + q_fed_back - reset - 1/2); set = trigger high,
-* reset = C above 2/3 VCC; a 5 ns RC in the feedback keeps the loop well defined
-Brs q 0 V = {VCC}*0.5*(1 + tanh(20*(v(trig)/{VCC} + v(qf)/{VCC} - 0.5*(1 + tanh((v(cap) - {vth})/1e-3)) - 0.5)))
-Rf q qf 1k
-Cf qf 0 5p ic=0
+Rin trig trigd 1k
+Cin trigd 0 250p ic=0
+Bctl ctl 0 V = v(cap) - 2*v(trigd)
 Rt vcc cap {r}
 Ct cap 0 {c} ic=0
-Bdis dctl 0 V = {discharge}
-Sdis cap 0 dctl 0 swdis ON
+Sdis cap 0 ctl 0 swmono ON
+{retrig}Rup vcc q 1k
+Sq q 0 ctl 0 swmono ON
+Bbuf qb 0 V = v(q)
 Rbw1 trig ch1 1k
 Cbw1 ch1 0 {TAU_BW / 1e3} ic=0
-Bbuf qb 0 V = v(q)
 Rbw2 qb ch2 1k
 Cbw2 ch2 0 {TAU_BW / 1e3} ic=0
-{_SWITCHES.format(vt=VCC / 2, vh=VCC / 6)}
+* ON above 2/3 VCC, OFF below -1 V
+.model swmono sw vt={(2 * VCC / 3 - 1) / 2} vh={(2 * VCC / 3 + 1) / 2} ron=1 roff=1e12
+.model swtrig sw vt={VCC / 2} vh=0.1 ron=1 roff=1e12
 """
     tmax = min(width, trigger_width * 20, trigger_period) / 2000
     res = run_transient(body, tstop, tmax, ["v(ch1)", "v(ch2)"])
