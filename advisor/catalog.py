@@ -286,8 +286,10 @@ def load_dirs(dirs: list[Path]) -> Catalog:
 @lru_cache(maxsize=4)
 def load_catalog(extra: tuple[str, ...] = ()) -> Catalog:
     """The shipped catalog plus user folders and ``extra`` (``--catalog DIR``) folders."""
+    from advisor.cache import cached
+
     dirs = [data_dir("catalog"), *user_dirs("catalog"), *(Path(e) for e in extra)]
-    return load_dirs(dirs)
+    return cached("catalog", dirs, lambda: load_dirs(dirs))
 
 
 def require_clean(cat: Catalog) -> Catalog:

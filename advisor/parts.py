@@ -49,7 +49,8 @@ RESERVED_SOURCES = ("memory", "common-practice")
 
 
 class _Frozen(BaseModel):
-    model_config = ConfigDict(frozen=True, extra="forbid")
+    # defer_build: a cached catalog (advisor.cache) never pays for schema building.
+    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)
 
 
 class Source(_Frozen):

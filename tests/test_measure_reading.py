@@ -83,3 +83,22 @@ def test_cli_text_summary(tmp_path, capsys):
     assert main(["measure", str(p), "--threshold", "2.5V"]) == 0
     text = capsys.readouterr().out
     assert "period" in text and "20 µs" in text
+
+
+def test_measured_from_feeds_the_circuit_measurement(tmp_path):
+    import argparse
+
+    from advisor.cli.options import add_circuit_options, circuit_from_args
+    from advisor.errors import ValueParseError
+
+    p = tmp_path / "sq.csv"
+    p.write_text(SQUARE)
+    parser = argparse.ArgumentParser()
+    add_circuit_options(parser)
+    circuit = circuit_from_args(parser.parse_args(["--measured-from", str(p)]), "NE555")
+    # One channel: its high time is the width (10 samples at 1 µs, by construction).
+    assert circuit.measured.quantity == "width" and circuit.measured.value == pytest.approx(10e-6)
+    circuit = circuit_from_args(parser.parse_args(["--measured-from", str(p), "--measured-quantity", "period"]), "NE555")
+    assert circuit.measured.value == pytest.approx(20e-6)
+    with pytest.raises(ValueParseError, match="not both"):
+        circuit_from_args(parser.parse_args(["--measured-from", str(p), "--measured-width", "1ms"]), "NE555")

@@ -121,3 +121,12 @@ def test_heavy_noise_without_hysteresis_would_count_false_edges(astable_sim, tmp
     good = measure_file(path).channels[0]
     assert good.edges.rising.size == rise.size and good.edges.falling.size == fall.size
     assert _rel(good.high.median, math.log(2) * (RA + RB) * C) < TOL
+
+
+def test_measured_value_for_calibration_is_the_pair_width(mono_sim, tmp_path):
+    from advisor.measure import measured_value
+
+    t, ch = sample(mono_sim, 30_000, noise=0.02, seed=4)
+    path = write_csv(tmp_path / "mono.csv", t, ch, "bom-ms-crlf")
+    # Defaults: trigger channel 1, output channel 2; law ln3·R·C (555 thresholds, TI NE555 SLFS022).
+    assert _rel(measured_value(path), math.log(3) * R1 * C1) < TOL

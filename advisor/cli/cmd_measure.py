@@ -111,7 +111,7 @@ def render_text(result) -> str:
     for c in result.channels:
         lv, th = c.edges.levels, c.edges.thresholds
         out.append(
-            f"channel {c.index} ({c.name}): levels {format_eng(lv.low, 'V', 3) if lv.low else '0 V'} / "
+            f"channel {c.index} ({c.name}): levels {format_eng(lv.low, 'V', 3)} / "
             f"{format_eng(lv.high, 'V', 3)}, edges at {format_eng(th.center, 'V', 3)} "
             f"(band {format_eng(th.lower, 'V', 3)} … {format_eng(th.upper, 'V', 3)}), "
             f"{c.edges.rising.size} rising, {c.edges.falling.size} falling\n"

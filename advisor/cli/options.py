@@ -44,6 +44,32 @@ def add_circuit_options(p: argparse.ArgumentParser, *, targets: bool = True) -> 
         g.add_argument(flag, metavar="VALUE", help=help_)
     g.add_argument("--mode", choices=["mono", "astable"], help="555-class mode (default: mono, astable when RB is given)")
     g.add_argument("--trigger-edge", choices=["rising", "falling"], help="active edge of the trigger signal")
+    _add_capture_options(g)
+
+
+def _add_capture_options(g) -> None:
+    """--measured-from: take the measured time from a scope capture (advisor.measure)."""
+    g.add_argument("--measured-from", metavar="FILE",
+                   help="scope capture (CSV) of the real circuit; its median output width (or "
+                        "--measured-quantity) calibrates the timing, in place of --measured-width etc.")
+    g.add_argument("--measured-quantity", choices=["width", "high", "low", "period"],
+                   help="what to take from the capture (default: width; period for an astable)")
+    g.add_argument("--trigger-channel", type=int, metavar="N",
+                   help="capture channel on the trigger (voltage columns numbered from 1; default 1)")
+    g.add_argument("--output-channel", type=int, metavar="N",
+                   help="capture channel on the output (default 2, or 1 when the capture has one channel)")
+
+
+def _measured_from_capture(args: argparse.Namespace, mode: str | None) -> Measurement | None:
+    path = getattr(args, "measured_from", None)
+    if path is None:
+        return None
+    from advisor.measure import measured_value  # numpy: only when a capture is given
+
+    quantity = getattr(args, "measured_quantity", None) or ("period" if mode == "astable" else "width")
+    value = measured_value(path, quantity, trigger_channel=getattr(args, "trigger_channel", None),
+                           output_channel=getattr(args, "output_channel", None))
+    return Measurement(quantity, value)
 
 
 def _get(args: argparse.Namespace, flag: str, kind: str) -> float | None:
@@ -68,6 +94,11 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
             if measured is not None:
                 raise ValueParseError("give one measured quantity at a time (--measured-width, -high, -low or -period)")
             measured = Measurement(q, v[f"--measured-{q}"])
+    from_capture = _measured_from_capture(args, mode)
+    if from_capture is not None:
+        if measured is not None:
+            raise ValueParseError("give --measured-from or a typed measured value (--measured-width, ...), not both")
+        measured = from_capture
     target = None
     duty = _get(args, "--duty", "fraction") if hasattr(args, "duty") else None
     rng = None

@@ -256,7 +256,7 @@ def _unit_of(name: str) -> str | None:
     return m.group(1) if m else None
 
 
-def _time_scale(name: str | None, unit: str | None, source: str) -> float:
+def _time_scale(name: str | None, unit: str | None) -> float:
     for u in (unit, _unit_of(name) if name else None):
         if u is None:
             continue
@@ -306,7 +306,7 @@ def _assemble(data: np.ndarray, header: list[str] | None, units: list[str] | Non
             location=source,
             hint="export with more digits, or one acquisition per file",
         )
-    time *= _time_scale(header[tcol] if header else None, units[tcol] if units else None, source)
+    time *= _time_scale(header[tcol] if header else None, units[tcol] if units else None)
     vcols = [i for i in range(ncols) if i != tcol]
     channels = np.ascontiguousarray(data[:, vcols].T)
     names = []

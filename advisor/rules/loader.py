@@ -182,8 +182,10 @@ def load_dirs(dirs: list[Path]) -> RuleSet:
 @lru_cache(maxsize=4)
 def load_rules(extra_dirs: tuple[str, ...] = ()) -> RuleSet:
     """The shipped rules plus ``RETIME_RULES`` / user folders and ``extra_dirs``."""
+    from advisor.cache import cached
+
     dirs = [data_dir("rules"), *user_dirs("rules"), *(Path(e) for e in extra_dirs)]
-    return load_dirs(dirs)
+    return cached("rules", dirs, lambda: load_dirs(dirs))
 
 
 def require_clean(rs: RuleSet) -> RuleSet:

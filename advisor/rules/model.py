@@ -23,7 +23,7 @@ RULE_ID = r"^[a-z0-9][a-z0-9-]{1,62}$"
 
 
 class _Frozen(BaseModel):
-    model_config = ConfigDict(frozen=True, extra="forbid")
+    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)
 
 
 class AppliesTo(_Frozen):

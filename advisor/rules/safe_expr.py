@@ -144,6 +144,11 @@ class Expr:
         """True only when the expression is definitely true (unknown is false)."""
         return _truth(self.value(env)) is True
 
+    def __reduce__(self):
+        # The evaluator is a tree of closures, which pickle cannot store: a cached
+        # rule set (advisor.cache) keeps the checked text and compiles it again.
+        return (compile_expr, (self.text,))
+
 
 def _truth(v: object) -> bool | None:
     if v is None:

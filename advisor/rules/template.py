@@ -38,6 +38,10 @@ class Template:
                 out |= p[0].names
         return frozenset(out)
 
+    def __reduce__(self):
+        # Recompiled from its checked text when a cached rule set is loaded (advisor.cache).
+        return (compile_template, (self.text, _any_name))
+
     def render(self, env: dict) -> str:
         out = []
         for p in self.parts:
@@ -66,6 +70,11 @@ def render_value(value: object, unit: str) -> str:
             return f"{value:.3g}"
         return format_eng(float(value), unit, digits=3)
     return MISSING
+
+
+def _any_name(name: str) -> bool:
+    """Vocabulary predicate for recompiling an already checked template."""
+    return True
 
 
 def compile_template(text: object, vocabulary: Callable[[str], bool] | Iterable[str]) -> Template:
