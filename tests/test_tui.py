@@ -137,6 +137,21 @@ async def test_value_below_the_published_minimum_shows_a_danger_finding():
         assert "DANGER" in rendered_text(app, "#headline")
 
 
+async def test_supply_above_absolute_maximum_shows_a_danger_finding():
+    app = Workbench()
+    async with app.run_test(size=SIZE) as pilot:
+        await open_workspace(pilot)
+        await fill(pilot, "old", "74HC221")
+        await fill(pilot, "r", "10k")
+        await fill(pilot, "c", "10n")
+        await fill(pilot, "vcc", "5")
+        assert "danger" not in [f["severity"] for f in app.screen.outcome.findings]
+        # Philips 74HC221 product specification (1990): supply absolute maximum 7 V; 15 V breaks it.
+        await fill(pilot, "vcc", "15")
+        assert "danger" in [f["severity"] for f in app.screen.outcome.findings]
+        assert "DANGER" in rendered_text(app, "#findings")
+
+
 async def test_a_bad_value_shows_an_inline_message_quoting_it():
     app = Workbench()
     async with app.run_test(size=SIZE) as pilot:
@@ -182,6 +197,34 @@ async def test_bad_or_empty_input_never_shows_a_traceback(field, text):
             assert "no-such-part-zz" in rendered_text(app, "#headline")
         await fill(pilot, field, "")  # emptied again: still no traceback
         assert "Traceback" not in rendered_text(app, "#headline")
+
+
+async def test_swap_shows_class_pin_map_and_rework():
+    app = Workbench()
+    async with app.run_test(size=SIZE) as pilot:
+        await open_workspace(pilot)
+        await fill(pilot, "old", "74121")
+        await fill(pilot, "new", "74HC221")
+        await fill(pilot, "vcc", "5")
+        await fill(pilot, "r", "10k")
+        await fill(pilot, "c", "10n")
+        assert app.screen.outcome.kind == "swap"
+        # 74121 (DIP-14, TI SN74121 sheet) into a 74HC221 (DIP-16, Philips sheet): the pins move,
+        # so the swap cannot be a drop-in (issue 6 expects "rewire").
+        assert app.screen.outcome.data["class"] not in ("drop-in", "drop-in-new-values")
+        head = rendered_text(app, "#headline")
+        assert "74121" in head and "74HC221" in head and app.screen.outcome.data["class"] in head
+        pins = rendered_text(app, "#pins")
+        assert "DIP-14" in pins and "DIP-16" in pins
+        rework = rendered_text(app, "#rework")
+        assert " 1. " in rework and " 2. " in rework  # ordered steps
+        assert app.screen.query_one("#pins").display and app.screen.query_one("#rework").display
+        # Ctrl+R exchanges the two parts.
+        app.screen.query_one("#f-old", Input).focus()
+        await pilot.press("ctrl+r")
+        await pilot.pause(0.15)
+        assert app.screen.query_one("#f-old", Input).value == "74HC221"
+        assert app.screen.query_one("#f-new", Input).value == "74121"
 
 
 async def test_empty_workspace_asks_for_a_part():
@@ -238,3 +281,10 @@ async def test_bom_desk_shows_every_row(tmp_path):
         assert table.row_count == 4  # every input row comes back
         summary = rendered_text(app, "#bom-summary")
         assert "summary" in summary
+        # Enter on the first row (SN74LS221N) opens it on the check/swap desk.
+        table.focus()
+        table.move_cursor(row=0)
+        await pilot.press("enter")
+        await pilot.pause(0.2)
+        assert isinstance(app.screen, WorkspaceScreen)
+        assert app.screen.query_one("#f-old", Input).value == "74LS221"

@@ -23,12 +23,9 @@ def register(p: argparse.ArgumentParser) -> None:
     add_new_vcc_option(p)
     p.add_argument("--limit", type=int, default=10, metavar="N", help="show the best N candidates (0: all; default 10)")
     p.add_argument("--series", default="E24", metavar="E24", help="E-series for new resistor values (default E24)")
-    try:
-        from advisor.cli.options import add_report_option
+    from advisor.cli.options import add_report_option
 
-        add_report_option(p)
-    except ImportError:
-        pass
+    add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -44,12 +41,9 @@ def run(args: argparse.Namespace) -> int:
     old = catalog.resolve(args.old)
     result = alternates(catalog, old.id, circuit_from_args(args, old.id), new_vcc=new_vcc_from_args(args),
                         limit=args.limit, series=args.series)
-    try:
-        from advisor.cli.options import write_report_if_asked
+    from advisor.cli.options import write_report_if_asked
 
-        write_report_if_asked(args, result, "alternates")
-    except ImportError:
-        pass
+    write_report_if_asked(args, result, "alternates")
     if args.json:
         emit_json(result.to_json())
     else:

@@ -17,53 +17,48 @@ DESCRIPTION = (
 
 
 def register(p: argparse.ArgumentParser) -> None:
-    from advisor.cli.options import add_circuit_options
+    from advisor.cli.options import add_circuit_options, add_new_vcc_option, add_report_option
 
     p.add_argument("part", metavar="PART", help="family id or part number, e.g. NE555, SN74HC221N")
     add_circuit_options(p)
+    add_new_vcc_option(p)
     p.add_argument("--range", metavar="TMIN..TMAX", help="acceptance window for the width (or period); adds a Monte Carlo share inside it")
     p.add_argument("--monte-carlo", metavar="N", type=int, help="run a Monte Carlo of N samples (numpy)")
-    try:
-        from advisor.cli.options import add_report_option
-
-        add_report_option(p)
-    except ImportError:
-        pass
+    add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args
+    from advisor.cli.options import circuit_from_args, new_vcc_from_args, write_report_if_asked
     from advisor.cli.output import catalog_for, emit_json
     from advisor.errors import InputError
+    from advisor.findings import merge_findings
+    from advisor.rules import check_findings
     from advisor.timing import analyse
 
     catalog = catalog_for(args)
     family = catalog.resolve(args.part)
     circuit = circuit_from_args(args, family.id)
+    new_vcc = new_vcc_from_args(args)
+    moved = None
+    if new_vcc is not None:
+        moved = (f"supply moved from {circuit.vcc:g} V to {new_vcc:g} V" if circuit.vcc is not None
+                 else f"checked at the new supply, {new_vcc:g} V")
+        if circuit.trigger.high is None:
+            moved += "; the trigger source is assumed to move with it (give --trigger-high to check its levels)"
+        circuit = circuit.with_(vcc=new_vcc)
     if args.monte_carlo is not None and not 100 <= args.monte_carlo <= 10_000_000:
         raise InputError("--monte-carlo: give between 100 and 10 000 000 samples", got=args.monte_carlo)
     result = analyse(family, circuit, samples=args.monte_carlo)
-    result.findings.extend(rule_findings(family, circuit, result.to_json()))
-    try:
-        from advisor.cli.options import write_report_if_asked
-
-        write_report_if_asked(args, result, "check")
-    except ImportError:
-        pass
+    if moved:
+        result.assumptions.append(moved)
+    rules = check_findings(family, circuit, result.to_json())
+    result.findings[:] = merge_findings(result.findings, rules)
+    write_report_if_asked(args, result, "check")
     if args.json:
         emit_json(result.to_json())
     else:
         sys.stdout.write(render_text(result.to_json()))
     return 0
-
-
-def rule_findings(family, circuit, timing_json: dict) -> list:
-    """Datasheet-rule findings from advisor.rules (the hook stays harmless if it is absent)."""
-    try:
-        from advisor.rules import check_findings
-    except ImportError:
-        return []
-    return list(check_findings(family, circuit, timing_json))
 
 
 # ----------------------------------------------------------------------------- text

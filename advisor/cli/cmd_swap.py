@@ -26,12 +26,9 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("--series", default="E24", metavar="E24", help="E-series for new resistor values (default E24)")
     p.add_argument("--old-package", metavar="PKG", help="the old part's package, e.g. DIP-14 (default: its first)")
     p.add_argument("--new-package", metavar="PKG", help="the new part's package (default: the one closest to the old)")
-    try:
-        from advisor.cli.options import add_report_option
+    from advisor.cli.options import add_report_option
 
-        add_report_option(p)
-    except ImportError:  # the report helper's option is optional here
-        pass
+    add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -44,12 +41,9 @@ def run(args: argparse.Namespace) -> int:
     old = catalog.resolve(args.old)
     result = swap(catalog, old.id, args.new, circuit_from_args(args, old.id), new_vcc=new_vcc_from_args(args),
                   series=args.series, old_package=args.old_package, new_package=args.new_package)
-    try:
-        from advisor.cli.options import write_report_if_asked
+    from advisor.cli.options import write_report_if_asked
 
-        write_report_if_asked(args, result, "swap")
-    except ImportError:
-        pass
+    write_report_if_asked(args, result, "swap")
     if args.json:
         emit_json(result.to_json())
     else:

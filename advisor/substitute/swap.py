@@ -19,7 +19,7 @@ from __future__ import annotations
 
 from advisor.circuit import Circuit, Target
 from advisor.errors import InputError, RetimeError
-from advisor.findings import Finding, sort_findings
+from advisor.findings import Finding, merge_findings
 from advisor.parts import Family
 from advisor.substitute.classify import SwapFacts, classify
 from advisor.substitute.pinmap import map_pins, network_kind
@@ -209,9 +209,8 @@ def swap(
 
     # --- findings, pins, class, rework -------------------------------------------
     old_json, new_json = old_t.to_json(), new_t.to_json()
-    findings = _rule_findings(old, old_c, old_json, new, final_c, new_json)
-    findings += _tag(old_t.findings, old.id) + _tag(new_t.findings, new.id)
-    findings = sort_findings(findings)
+    findings = merge_findings(_tag(old_t.findings, old.id) + _tag(new_t.findings, new.id),
+                              _rule_findings(old, old_c, old_json, new, final_c, new_json))
 
     edge = circuit.trigger.edge
     pm = map_pins(old, new, edge=edge, uses_internal_r=uses_rint,

@@ -136,6 +136,7 @@ class BomScreen(Screen):
                 Text(rev.status, style=_STATUS_STYLE.get(rev.status, "")),
                 rev.family, "" if rev.score is None else f"{rev.score:.0f}",
                 rev.best_alternate, rev.best_class, finds, rev.reason,
+                key=str(rev.index),
             )
         n = len(res.reviews)
         bar = self.query_one("#bom-progress", ProgressBar)
@@ -150,6 +151,21 @@ class BomScreen(Screen):
             summary.append(f"{status} {count}", style=_STATUS_STYLE.get(status, ""))
         self.query_one("#bom-summary", Static).update(summary)
         table.focus()
+
+    def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
+        """Enter on a reviewed row: open that part and its best alternate on the check/swap desk."""
+        if self.result is None or event.row_key.value is None:
+            return
+        index = int(event.row_key.value)
+        rev = next((r for r in self.result.reviews if r.index == index), None)
+        if rev is None or not rev.family:
+            self._say("this row has no recognised timer or one-shot to open")
+            return
+        fields = {"old": rev.family, "new": rev.best_alternate or ""}
+        new_vcc = self.query_one("#bom-new-vcc", Input).value.strip()
+        if new_vcc:
+            fields["new_vcc"] = new_vcc
+        self.app.open_in_workspace(**fields)
 
     def action_save(self) -> None:
         if self.result is None:

@@ -25,6 +25,7 @@ KEYS: list[tuple[str, str, str]] = [
     ("", "Ctrl+L", "clear the form"),
     ("", "Ctrl+R", "exchange the part and its replacement"),
     ("BOM", "Enter", "read the file named in the path field"),
+    ("", "Enter on a row", "open that part and its best alternate on the check/swap desk"),
     ("", "Ctrl+S", "write the reviewed rows next to the input (…-reviewed.csv)"),
 ]
 

@@ -108,6 +108,8 @@ def _extras(data: dict) -> list:
         elif trig.get("divide_by") == 1:
             line.append(": every trigger fires", style=STYLE["good"])
         out.append(line)
+    for assumed in data.get("assumptions") or []:
+        out.append(Text(f"assumed: {assumed}", style=STYLE["memory"]))
     tol = data.get("tolerances")
     if isinstance(tol, dict) and tol.get("r_tol") is not None:
         line = Text(f"band from R ±{tol['r_tol']:.0%}, C ±{tol.get('c_tol', 0):.0%} and the spread of published constants", style=STYLE["dim"])
