@@ -29,9 +29,11 @@ class PartSide:
     mode: str
     technology: str
     status: str
+    trigger: dict | None = None  # this side's trigger-rate verdict, when a trigger period was given
 
     def to_json(self) -> dict:
         return {
+            "trigger": dict(self.trigger) if self.trigger else None,
             "family": self.family,
             "title": self.title,
             "vcc": self.vcc,

@@ -78,8 +78,9 @@ def _duty_error(kept: dict, timing: dict) -> float:
 
 
 def _side(fam: Family, t, vcc: float | None) -> PartSide:
+    trig = t.trigger.to_json() if t.trigger is not None else None
     return PartSide(fam.id, fam.title, vcc, dict(t.values), {k: dict(v) for k, v in t.timing.items()}, t.mode,
-                    fam.technology, fam.status)
+                    fam.technology, fam.status, trig)
 
 
 def _tag(findings: list[Finding], part: str) -> list[Finding]:

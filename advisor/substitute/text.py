@@ -70,7 +70,8 @@ def render_swap(j: dict, *, title: str | None = None, findings: bool = True) -> 
     pm = j["pin_map"]
     pairs = ", ".join(f"{lk['old_pin']}→{lk['new_pin']}" + ("" if not lk["moved"] else "*")
                       for lk in sorted(pm["links"], key=lambda x: x["old_pin"]))
-    lines.append(f"  pins {pm['old_package']} → {pm['new_package']}: {pairs}   (* moved)")
+    moved = any(lk["moved"] for lk in pm["links"])
+    lines.append(f"  pins {pm['old_package']} → {pm['new_package']}: {pairs}" + ("   (* moved)" if moved else "   (same pins)"))
     pol = pm["polarity"]
     if pol.get("edge"):
         lines.append(f"  edge {pol['edge']}: {pol.get('old_input') or '—'} → {pol.get('new_input') or 'no input'}"
@@ -87,9 +88,12 @@ def render_swap(j: dict, *, title: str | None = None, findings: bool = True) -> 
         else:
             verdict = trig.get("note") or "—"
         lines.append(f"  trig every {_t(trig['period'])}: {verdict}")
-    lines.append("  rework")
-    for s in j["rework"]:
-        lines.append(f"    {s['n']:>2}. {s['detail']}")
+    if j["class"] == "unsuitable":
+        lines.append("  rework: none advised: this part cannot do the job as the circuit stands (see why)")
+    else:
+        lines.append("  rework")
+        for s in j["rework"]:
+            lines.append(f"    {s['n']:>2}. {s['detail']}")
     if findings:
         if j["findings"]:
             lines.append("  findings")
