@@ -14,9 +14,9 @@ from pathlib import Path
 import yaml
 from pydantic import BaseModel
 
-from advisor.errors import DataError, UnknownPartError
+from advisor.errors import UnknownPartError, raise_first_problem
 from advisor.parts import RESERVED_SOURCES, Family, Sourced
-from advisor.resources import data_dir, user_dirs
+from advisor.resources import data_dirs
 
 try:  # the C loader is ~10x faster; fall back when libyaml is absent
     _Loader = yaml.CSafeLoader
@@ -288,14 +288,11 @@ def load_catalog(extra: tuple[str, ...] = ()) -> Catalog:
     """The shipped catalog plus user folders and ``extra`` (``--catalog DIR``) folders."""
     from advisor.cache import cached
 
-    dirs = [data_dir("catalog"), *user_dirs("catalog"), *(Path(e) for e in extra)]
+    dirs = data_dirs("catalog", extra)
     return cached("catalog", dirs, lambda: load_dirs(dirs))
 
 
 def require_clean(cat: Catalog) -> Catalog:
     """Raise DataError naming the first problem (the rest are in ``cat.problems``)."""
-    if cat.problems:
-        first = cat.problems[0]
-        more = f" (and {len(cat.problems) - 1} more; run 'retime catalog check')" if len(cat.problems) > 1 else ""
-        raise DataError(str(first) + more)
+    raise_first_problem(cat.problems, "retime catalog check")
     return cat

@@ -65,3 +65,10 @@ class DataError(RetimeError):
 
 class CaptureError(RetimeError):
     """A scope capture that cannot be measured (no time column, no edges, ...)."""
+
+
+def raise_first_problem(problems: list, command: str) -> None:
+    """Raise DataError naming the first located problem; ``command`` lists them all."""
+    if problems:
+        more = f" (and {len(problems) - 1} more; run '{command}')" if len(problems) > 1 else ""
+        raise DataError(str(problems[0]) + more)

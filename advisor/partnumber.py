@@ -175,18 +175,23 @@ def _rule_matches(idx: _Index, q: str) -> dict[str, Match]:
     return best
 
 
-def _fuzzy_matches(idx: _Index, q: str, limit: int) -> dict[str, Match]:
-    from rapidfuzz import process
-    from rapidfuzz.distance import OSA
-
+def _cores(q: str) -> set[str]:
+    """What typo matching compares: the query, without a maker prefix, and up to its last digit."""
     cores = {q}
     for _prefix, rest in _strip_prefixes(q, QUERY_PREFIXES):
         cores.add(rest)
         m = _CORE.match(rest)
         if m:
             cores.add(m.group(1))
+    return cores
+
+
+def _fuzzy_matches(idx: _Index, q: str, limit: int) -> dict[str, Match]:
+    from rapidfuzz import process
+    from rapidfuzz.distance import OSA
+
     best: dict[str, Match] = {}
-    for core in cores:
+    for core in _cores(q):
         hits = process.extract(core, idx.choices, scorer=OSA.normalized_similarity,
                                limit=max(limit * 3, 10), score_cutoff=FUZZY_FLOOR / 100)
         for key, sim, i in hits:
@@ -259,13 +264,7 @@ def recognise_many(catalog, queries: list[str], limit: int = 5) -> dict[str, lis
             out[query] = sorted(found.values(), key=lambda m: (-m.score, -len(m.matched), m.family))[:limit]
             continue
         pending[query] = found
-        qcores = {q}
-        for _prefix, rest in _strip_prefixes(q, QUERY_PREFIXES):
-            qcores.add(rest)
-            m = _CORE.match(rest)
-            if m:
-                qcores.add(m.group(1))
-        for core in qcores:
+        for core in _cores(q):
             cores.append(core)
             owners.append(query)
     if cores:

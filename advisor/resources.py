@@ -31,3 +31,8 @@ def user_dirs(name: str) -> list[Path]:
     if home.is_dir():
         out.append(home)
     return out
+
+
+def data_dirs(name: str, extra: tuple[str, ...] = ()) -> list[Path]:
+    """Shipped folder first, then user folders, then ``extra`` (later ones override)."""
+    return [data_dir(name), *user_dirs(name), *(Path(e) for e in extra)]

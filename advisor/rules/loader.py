@@ -17,8 +17,8 @@ from pathlib import Path
 
 import yaml
 
-from advisor.errors import DataError
-from advisor.resources import data_dir, user_dirs
+from advisor.errors import raise_first_problem
+from advisor.resources import data_dirs
 from advisor.rules.context import Var, vocabulary
 from advisor.rules.engine import CompiledRule, RuleSet
 from advisor.rules.safe_expr import ExprError, compile_expr
@@ -184,16 +184,13 @@ def load_rules(extra_dirs: tuple[str, ...] = ()) -> RuleSet:
     """The shipped rules plus ``RETIME_RULES`` / user folders and ``extra_dirs``."""
     from advisor.cache import cached
 
-    dirs = [data_dir("rules"), *user_dirs("rules"), *(Path(e) for e in extra_dirs)]
+    dirs = data_dirs("rules", tuple(extra_dirs))
     return cached("rules", dirs, lambda: load_dirs(dirs))
 
 
 def require_clean(rs: RuleSet) -> RuleSet:
     """Raise DataError naming the first problem."""
-    if rs.problems:
-        first = rs.problems[0]
-        more = f" (and {len(rs.problems) - 1} more; run 'retime rules --check')" if len(rs.problems) > 1 else ""
-        raise DataError(str(first) + more)
+    raise_first_problem(rs.problems, "retime rules --check")
     return rs
 
 
