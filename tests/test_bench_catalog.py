@@ -6,7 +6,8 @@ Goals from issue 3: load at most 100 ms, find at most 5 ms. Run with
 
 from __future__ import annotations
 
-from advisor.catalog import data_dir, load_dirs
+from advisor.catalog import load_dirs
+from advisor.resources import data_dir
 from advisor.partnumber import recognise
 
 QUERIES = ["SN74LS221N", "MC14538BCP", "TLC555CDR", "74HC123PW", "SN74LS21N"]
