@@ -421,7 +421,7 @@ def map_pins(
         polarity_note = f"{polarity_note}; {extra}" if polarity_note else extra
     if assumed:
         extra = (f"trigger edge not given: assumed the {edge} edge on {old.id} "
-                 f"{old_active.name if old_active else '?'}; pass --trigger-edge to be sure")
+                 f"{old_active.name if old_active else '?'} (pass --trigger-edge to be sure)")
         polarity_note = f"{polarity_note}; {extra}" if polarity_note else extra
 
     # --- channel by channel -----------------------------------------------------

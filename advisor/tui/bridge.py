@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import importlib
 import importlib.util
+import re
 from dataclasses import dataclass, field
 
 from advisor.circuit import Circuit, Trigger
@@ -94,8 +95,10 @@ def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]
             zero_ok = True if spec.kind == "fraction" else None
             values[spec.key] = parse_quantity(text, spec.kind, zero_ok=zero_ok)
         except ValueParseError as exc:
-            # Short form for a narrow column: the text quoted back and what would read.
-            errors[spec.key] = f"cannot read {text!r}; expected {exc.expected}" if exc.expected else exc.render()
+            # Short form for a narrow column: the text quoted back, why, and what would read.
+            why = re.search(r"\(([^()]*)\)$", exc.message)
+            short = f"cannot read {text!r}" + (f" ({why.group(1)})" if why else "")
+            errors[spec.key] = f"{short}; expected {exc.expected}" if exc.expected else exc.render()
             values[spec.key] = None
     sett = values.get("pot_setting")
     if sett is not None and not 0.0 <= float(sett) <= 1.0:  # type: ignore[arg-type]
@@ -182,16 +185,29 @@ def evaluate(catalog, raw: dict[str, str]) -> Outcome:
         return Outcome("error", field_errors=errors, problem=f"internal error: {type(exc).__name__}: {exc} (please report it)")
 
 
+def _resolve_field(catalog, values: dict[str, object], errors: dict[str, str], key: str):
+    """The family a part field names; an unknown part is marked on its own field."""
+    try:
+        return resolve(catalog, str(values[key]))
+    except RetimeError as exc:
+        errors[key] = exc.render()
+        return None
+
+
 def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Outcome:
-    old_fam = resolve(catalog, str(values["old"]))
+    old_fam = _resolve_field(catalog, values, errors, "old")
     new_query = values.get("new")
+    new_fam = _resolve_field(catalog, values, errors, "new") if new_query else None
+    if old_fam is None or (new_query and new_fam is None):
+        bad = errors.get("old") or errors.get("new")
+        return Outcome("error", field_errors=errors, part=old_fam.id if old_fam else None,
+                       new_part=new_fam.id if new_fam else None, problem=bad)
     if errors:
         # Keep showing which part was recognised, but compute nothing from a half-read form.
         return Outcome("error", field_errors=errors, part=old_fam.id, problem="fix the marked field to recompute")
     if values.get("pot_setting") is not None and values.get("pot") is None:
         return Outcome("error", part=old_fam.id, field_errors={"pot_setting": "a pot setting needs the pot's value; fill in Pot"})
-    if new_query:
-        new_fam = resolve(catalog, str(new_query))
+    if new_query and new_fam is not None:
         swap = engine_function("advisor.substitute", "swap")
         if swap is None:
             return Outcome("error", part=old_fam.id, new_part=new_fam.id, problem="swap engine (advisor.substitute) is not installed yet")
