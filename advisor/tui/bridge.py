@@ -22,10 +22,6 @@ from advisor.errors import RetimeError, ValueParseError
 from advisor.findings import SEVERITY_ORDER
 from advisor.values import parse_quantity
 
-#: Engine modules the workbench uses; the screens say which are not there yet.
-ENGINE_MODULES = ("advisor.partnumber", "advisor.timing", "advisor.rules", "advisor.substitute", "advisor.bom")
-
-
 def module_present(name: str) -> bool:
     """True when the module exists as a real module or package (not a bare folder)."""
     try:
@@ -43,10 +39,6 @@ def engine_function(module: str, name: str):
         return getattr(importlib.import_module(module), name, None)
     except ImportError:  # a piece the module needs is not there yet
         return None
-
-
-def missing_modules() -> list[str]:
-    return [m for m in ENGINE_MODULES if not module_present(m)]
 
 
 @dataclass(frozen=True)
@@ -73,6 +65,29 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("trigger_period", "Trigger period", "time", "e.g. 64us", "time between trigger edges"),
 )
 FIELD_BY_KEY = {f.key: f for f in FIELDS}
+
+
+#: Command-line flags the engine's messages name, and the form field a workbench user edits.
+_FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "rb": "RB", "c": "C",
+               "pot": "Pot", "pot-setting": "Pot setting", "trigger-period": "Trigger period"}
+_FLAG = re.compile(r"--([a-z][a-z-]*)")
+
+
+def ui_words(text: str | None) -> str | None:
+    """Engine text speaks of CLI flags (``--c``); on the workbench they are fields ("C")."""
+    if not text:
+        return text
+    text = text.replace("--mode mono", "one-shot mode (leave RB blank)")
+    return _FLAG.sub(lambda m: f"'{_FLAG_FIELD[m.group(1)]}'" if m.group(1) in _FLAG_FIELD else m.group(0), text)
+
+
+def _in_ui_words(data: dict, findings: list[dict]) -> None:
+    if isinstance(data.get("assumptions"), list):
+        data["assumptions"] = [ui_words(a) if isinstance(a, str) else a for a in data["assumptions"]]
+    for f in findings:
+        for key in ("message", "fix"):
+            if isinstance(f.get(key), str):
+                f[key] = ui_words(f[key])
 
 
 def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]]:
@@ -178,11 +193,14 @@ def evaluate(catalog, raw: dict[str, str]) -> Outcome:
     if not old:
         return Outcome("empty", field_errors=errors, hint="Type the part on the board (F2 looks parts up).")
     try:
-        return _evaluate(catalog, values, errors)
+        out = _evaluate(catalog, values, errors)
     except RetimeError as exc:
-        return Outcome("error", field_errors=errors, problem=exc.render())
+        return Outcome("error", field_errors=errors, problem=ui_words(exc.render()))
     except Exception as exc:  # an engine bug must not reach the screen as a traceback
         return Outcome("error", field_errors=errors, problem=f"internal error: {type(exc).__name__}: {exc} (please report it)")
+    out.problem = ui_words(out.problem)
+    _in_ui_words(out.data, out.findings)
+    return out
 
 
 def _resolve_field(catalog, values: dict[str, object], errors: dict[str, str], key: str):
