@@ -6,7 +6,6 @@ must hold or values from the named published law.
 
 from __future__ import annotations
 
-import math
 
 import pytest
 

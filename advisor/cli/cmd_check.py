@@ -31,28 +31,15 @@ def run(args: argparse.Namespace) -> int:
     from advisor.cli.options import circuit_from_args, new_vcc_from_args, write_report_if_asked
     from advisor.cli.output import catalog_for, emit_json
     from advisor.errors import InputError
-    from advisor.findings import merge_findings
-    from advisor.rules import check_findings
-    from advisor.timing import analyse
+    from advisor.checking import check_circuit
 
     catalog = catalog_for(args)
     family = catalog.resolve(args.part)
     circuit = circuit_from_args(args, family.id)
     new_vcc = new_vcc_from_args(args)
-    moved = None
-    if new_vcc is not None:
-        moved = (f"supply moved from {circuit.vcc:g} V to {new_vcc:g} V" if circuit.vcc is not None
-                 else f"checked at the new supply, {new_vcc:g} V")
-        if circuit.trigger.high is None:
-            moved += "; the trigger source is assumed to move with it (give --trigger-high to check its levels)"
-        circuit = circuit.with_(vcc=new_vcc)
     if args.monte_carlo is not None and not 100 <= args.monte_carlo <= 10_000_000:
         raise InputError("--monte-carlo: give between 100 and 10 000 000 samples", got=args.monte_carlo)
-    result = analyse(family, circuit, samples=args.monte_carlo)
-    if moved:
-        result.assumptions.append(moved)
-    rules = check_findings(family, circuit, result.to_json())
-    result.findings[:] = merge_findings(result.findings, rules)
+    result = check_circuit(family, circuit, new_vcc=new_vcc, samples=args.monte_carlo)
     write_report_if_asked(args, result, "check")
     if args.json:
         emit_json(result.to_json())

@@ -19,7 +19,6 @@ from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Input, Label, ProgressBar, Static
 
 from advisor.errors import RetimeError
-from advisor.tui.bridge import module_present
 from advisor.tui.palette import STYLE
 from advisor.values import parse_quantity
 
@@ -59,9 +58,6 @@ class BomScreen(Screen):
 
     def on_mount(self) -> None:
         self.query_one("#bom-table").border_title = "Rows"
-        note = self.query_one("#bom-note", Static)
-        if not module_present("advisor.bom"):
-            note.update(Text("BOM review engine (advisor.bom) is not installed yet", style=STYLE["warning"]))
         start = getattr(self.app, "start_bom", None)
         path = self.query_one("#bom-path", Input)
         if start:
@@ -81,9 +77,6 @@ class BomScreen(Screen):
         column = self.query_one("#bom-column", Input).value.strip() or None
         if not raw_path:
             self._say("type the path of a BOM file (.csv or .xlsx), then Enter")
-            return
-        if not module_present("advisor.bom"):
-            self._say("BOM review engine (advisor.bom) is not installed yet")
             return
         try:
             new_vcc = parse_quantity(raw_vcc, "voltage") if raw_vcc else None

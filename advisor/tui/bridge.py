@@ -12,8 +12,6 @@ No Textual import here, so this module is tested and timed without a terminal.
 
 from __future__ import annotations
 
-import importlib
-import importlib.util
 import re
 from dataclasses import dataclass, field
 
@@ -21,25 +19,6 @@ from advisor.circuit import Circuit, Trigger
 from advisor.errors import RetimeError, ValueParseError
 from advisor.findings import SEVERITY_ORDER
 from advisor.values import parse_quantity
-
-def module_present(name: str) -> bool:
-    """True when the module exists as a real module or package (not a bare folder)."""
-    try:
-        spec = importlib.util.find_spec(name)
-    except (ImportError, ValueError):
-        return False
-    return spec is not None and spec.origin is not None
-
-
-def engine_function(module: str, name: str):
-    """``module.name`` when that engine piece is installed, else None."""
-    if not module_present(module):
-        return None
-    try:
-        return getattr(importlib.import_module(module), name, None)
-    except ImportError:  # a piece the module needs is not there yet
-        return None
-
 
 @dataclass(frozen=True)
 class FieldSpec:
@@ -226,24 +205,17 @@ def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Out
     if values.get("pot_setting") is not None and values.get("pot") is None:
         return Outcome("error", part=old_fam.id, field_errors={"pot_setting": "a pot setting needs the pot's value; fill in Pot"})
     if new_query and new_fam is not None:
-        swap = engine_function("advisor.substitute", "swap")
-        if swap is None:
-            return Outcome("error", part=old_fam.id, new_part=new_fam.id, problem="swap engine (advisor.substitute) is not installed yet")
+        from advisor.substitute import swap
+
         circuit = build_circuit(old_fam.id, values)
         result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"))
         data = result.to_json()
         return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
-    analyse = engine_function("advisor.timing", "analyse")
-    if analyse is None:
-        return Outcome("error", part=old_fam.id, problem="timing engine (advisor.timing) is not installed yet")
+    from advisor.checking import check_circuit
+
     circuit = build_circuit(old_fam.id, values)
-    result = analyse(old_fam, circuit)
-    data = result.to_json()
-    found = list(data.get("findings") or [])
-    check_findings = engine_function("advisor.rules", "check_findings")
-    if check_findings is not None:
-        found.extend(check_findings(old_fam, circuit, data))
-    return Outcome("check", data=data, findings=sorted_findings(found), part=old_fam.id)
+    data = check_circuit(old_fam, circuit, new_vcc=values.get("new_vcc")).to_json()
+    return Outcome("check", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id)
 
 
 @dataclass(frozen=True)
@@ -265,18 +237,12 @@ def find_parts(catalog, query: str, limit: int = 12) -> tuple[list[Hit], str | N
         hits = [Hit(fid, 0.0, "list", catalog.families[fid].title) for fid in catalog.ids()]
         return hits, None
     try:
-        recognise = engine_function("advisor.partnumber", "recognise")
-        if recognise is not None:
-            matches = recognise(catalog, q, limit=limit)
-            hits = []
-            for m in matches:
-                fam = catalog.families.get(str(m.family).upper())
-                hits.append(Hit(str(m.family), float(m.score), str(m.how), fam.title if fam else ""))
-        else:
-            up = q.upper()
-            hits = [Hit(fid, 100.0 if fid == up else 50.0, "exact" if fid == up else "contains",
-                        catalog.families[fid].title) for fid in catalog.ids() if up in fid]
-            hits.sort(key=lambda h: -h.score)
+        from advisor.partnumber import recognise
+
+        hits = []
+        for m in recognise(catalog, q, limit=limit):
+            fam = catalog.families.get(str(m.family).upper())
+            hits.append(Hit(str(m.family), float(m.score), str(m.how), fam.title if fam else ""))
     except RetimeError as exc:
         return [], exc.render()
     except Exception as exc:  # recognition bug: say so in one line
