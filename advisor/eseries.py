@@ -108,13 +108,23 @@ def _at(mantissa: float, decade: int) -> float:
     return float(f"{mantissa:.2f}e{decade}")
 
 
+#: Decades the look-up ladder spans: 1 fΩ/fF/fs up to 10 TΩ, far beyond any part.
+_DECADES = range(-16, 14)
+
+
+@lru_cache(maxsize=None)
+def _ladder(series: str) -> tuple[float, ...]:
+    """Every value of the series over :data:`_DECADES`, sorted (built once per series)."""
+    return tuple(_at(m, d) for d in _DECADES for m in mantissas(series))
+
+
 def neighbours(series: str, value: float) -> tuple[float, float]:
     """The series values just at-or-below and just at-or-above ``value`` (> 0)."""
     if not value > 0 or not math.isfinite(value):
         raise InputError(f"no preferred value for {value!r}", got=value, expected="a positive number")
-    decade = math.floor(math.log10(value))
-    cands = [_at(m, d) for d in (decade - 1, decade, decade + 1) for m in mantissas(series)]
-    cands.sort()
+    cands = _ladder(_name(series))
+    if not cands[0] < value < cands[-1]:
+        raise InputError(f"no preferred value for {value!r}", got=value, expected="a value between 1e-16 and 1e13")
     i = bisect.bisect_left(cands, value * (1 - 1e-12))
     if i < len(cands) and abs(cands[i] - value) <= value * 1e-12:
         return cands[i], cands[i]
