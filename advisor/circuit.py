@@ -31,8 +31,18 @@ class Trigger:
 
 @dataclass(frozen=True)
 class Measurement:
+    """A measured time of the real circuit (s), typed or read from a scope capture.
+
+    ``capture`` is the compact summary of the capture it came from (file, channels,
+    thresholds, the first edges; built by ``advisor.measure.summary``), carried into
+    the results' ``capture`` key so the front ends can draw the measured trace.
+    It is a record of where the value came from, not part of the value: it takes no
+    part in comparisons.
+    """
+
     quantity: Measured
     value: float  # s
+    capture: dict | None = field(default=None, compare=False)
 
 
 @dataclass(frozen=True)

@@ -130,16 +130,17 @@ def review_bom(
     matches = recognise_many(catalog, sorted(queries))
     reviews: list[RowReview] = []
     cache: dict[tuple, RowReview] = {}
+    shortlists: dict[tuple, object] = {}
     total = len(data_idx)
     for n, i in enumerate(data_idx, 1):
         row = table.rows[i]
-        reviews.append(_review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit))
+        reviews.append(_review_row(i, row, cols, catalog, matches, cache, shortlists, new_vcc, vcc, limit))
         if progress is not None and (n % 200 == 0 or n == total):
             progress(n, total)
     return BomResult(table, cols, reviews, new_vcc)
 
 
-def _review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit) -> RowReview:
+def _review_row(i, row, cols, catalog, matches, cache, shortlists, new_vcc, vcc, limit) -> RowReview:
     if not any(c.strip() for c in row):
         return RowReview(i, "no-part-number", reason="empty row")
     if cols.part >= len(row):
@@ -162,7 +163,7 @@ def _review_row(i, row, cols, catalog, matches, cache, new_vcc, vcc, limit) -> R
     supply = row_vcc or vcc or _default_vcc(fam)
     key = (best.family, supply, r, rb, c, new_vcc)
     if key not in cache:
-        cache[key] = _alternates_for(fam, supply, r, rb, c, new_vcc, catalog, limit)
+        cache[key] = _alternates_for(fam, supply, r, rb, c, new_vcc, catalog, limit, shortlists)
     base = cache[key]
     status = "reviewed" if best.how != "fuzzy" else "check-match"
     reason = base.reason
@@ -185,14 +186,30 @@ def _default_vcc(fam) -> float:
     return 5.0 if rec.min <= 5.0 <= rec.max else rec.min
 
 
-def _alternates_for(fam, vcc, r, rb, c, new_vcc, catalog, limit) -> RowReview:
+#: How many of the catalog-wide ranking (on the reference network) are re-ranked with a
+#: line's own R and C. Classes that depend on pins, behaviour and supply do not change
+#: with values; only drop-in vs drop-in-new-values, the timing error and value findings
+#: do, so the whole-catalog search runs once per part and supply, not once per line.
+SHORTLIST = 8
+
+
+def _alternates_for(fam, vcc, r, rb, c, new_vcc, catalog, limit, shortlists: dict) -> RowReview:
     from advisor.substitute import alternates
 
     mode = "astable" if rb is not None else None
     circuit = Circuit(part=fam.id, vcc=vcc, mode=mode, r=r if mode is None else None,
                       ra=r if mode == "astable" else None, rb=rb, c=c)
     try:
-        res = alternates(catalog, fam.id, circuit, new_vcc=new_vcc, limit=limit).to_json()
+        key = (fam.id, vcc, mode, new_vcc)
+        if key not in shortlists:
+            ref = alternates(catalog, fam.id, Circuit(part=fam.id, vcc=vcc, mode=mode), new_vcc=new_vcc, limit=0)
+            shortlists[key] = ref
+        ref = shortlists[key]
+        if c is None:
+            res = ref.to_json()
+        else:
+            pool = [cand.new.family for cand in ref.candidates[: max(SHORTLIST, limit)]]
+            res = alternates(catalog, fam.id, circuit, new_vcc=new_vcc, limit=limit, families=pool).to_json()
     except RetimeError as exc:
         return RowReview(-1, "reviewed", reason=exc.message)
     cands = res.get("candidates", [])[:limit]
@@ -205,8 +222,8 @@ def _alternates_for(fam, vcc, r, rb, c, new_vcc, catalog, limit) -> RowReview:
     reason = ""
     if not cands:
         reason = "no alternate in the catalog can do this job" + (f" at {new_vcc:g} V" if new_vcc else "")
-    elif r is None and c is None:
-        reason = "no R/C columns: classes judged on pins, behaviour and supply only"
+    elif c is None:
+        reason = "no C column: classes judged on pins, behaviour and supply with a reference network"
     return RowReview(
         -1, "reviewed", best_alternate=alts[0]["family"] if alts else "", best_class=alts[0]["class"] if alts else "",
         alternates=alts, findings=findings[:3], reason=reason,

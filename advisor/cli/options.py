@@ -64,12 +64,13 @@ def _measured_from_capture(args: argparse.Namespace, mode: str | None) -> Measur
     path = getattr(args, "measured_from", None)
     if path is None:
         return None
-    from advisor.measure import measured_value  # numpy: only when a capture is given
+    # numpy: only when a capture is given. The Measurement carries a summary of the
+    # capture (edges of the first periods) that the results pass on as "capture".
+    from advisor.measure.summary import capture_measurement
 
-    quantity = getattr(args, "measured_quantity", None) or ("period" if mode == "astable" else "width")
-    value = measured_value(path, quantity, trigger_channel=getattr(args, "trigger_channel", None),
-                           output_channel=getattr(args, "output_channel", None))
-    return Measurement(quantity, value)
+    return capture_measurement(path, getattr(args, "measured_quantity", None), mode=mode,
+                               trigger_channel=getattr(args, "trigger_channel", None),
+                               output_channel=getattr(args, "output_channel", None))
 
 
 def _get(args: argparse.Namespace, flag: str, kind: str) -> float | None:

@@ -51,8 +51,13 @@ def alternates(
     new_vcc: float | None = None,
     limit: int = 10,
     series: str = "E24",
+    families: list[str] | None = None,
 ) -> AlternatesResult:
-    """Ranked candidates for replacing ``old_query`` in ``circuit`` (see the module docstring)."""
+    """Ranked candidates for replacing ``old_query`` in ``circuit`` (see the module docstring).
+
+    ``families`` restricts the search to those family ids (a shortlist), as the BOM
+    review does after ranking the whole catalog once per part and supply.
+    """
     old = catalog.resolve(old_query)
     circuit, reference_note = with_reference(circuit)
     old_c = circuit.with_(part=old.id)
@@ -60,7 +65,8 @@ def alternates(
     vcc = new_vcc if new_vcc is not None else old_t.values.get("vcc")
     kept = kept_quantity(old_t.mode, old_t.timing, old_t.calibration is not None)
     results, rejected = [], []
-    for fid in catalog.ids():
+    pool = catalog.ids() if families is None else [f.upper() for f in families if f.upper() in catalog.families]
+    for fid in pool:
         fam = catalog.families[fid]
         if fam.id.upper() == old.id.upper():
             continue

@@ -3,7 +3,8 @@
 ``SwapResult.to_json()``: ``old`` and ``new`` (family, supply, values, timing),
 ``class``, ``pin_map``, ``rework`` (ordered steps), ``findings`` (both parts, most
 severe first), and the new part's ``timing``, ``calibration`` and ``trigger`` at
-the top level, like every timing result. ``AlternatesResult.to_json()``:
+the top level, like every timing result; ``capture`` is the summary of the old
+board's scope capture when the measurement came from one (else null). ``AlternatesResult.to_json()``:
 ``{"old": ..., "candidates": [summary, ...], "rejected": [...]}``, best first.
 """
 
@@ -59,6 +60,7 @@ class SwapResult:
     trigger: dict | None = None
     design: dict | None = None  # how the values were found (series, kept_c, alternatives)
     assumptions: list[str] = field(default_factory=list)
+    capture: dict | None = None  # summary of the old board's scope capture, when the measurement came from one
 
     @property
     def cls(self) -> str:
@@ -92,6 +94,7 @@ class SwapResult:
             "trigger": self.trigger,
             "design": self.design,
             "assumptions": list(self.assumptions),
+            "capture": self.capture,
         }
 
     def summary(self) -> dict:

@@ -49,7 +49,7 @@ def _analyse(family: Family, circuit: Circuit):
 def _design(family: Family, circuit: Circuit, series: str, limit: int = 12):
     from advisor.timing.design import design
 
-    return design(family, circuit, series=series, keep_c=True, limit=limit)
+    return design(family, circuit, series=series, keep_c=True, limit=limit, good_enough=DESIGN_GOAL)
 
 
 def _rule_findings(old, old_c, old_t, new, new_c, new_t) -> list[Finding]:
@@ -248,6 +248,7 @@ def swap(
         trigger=new_json.get("trigger"),
         design=design_info,
         assumptions=list(dict.fromkeys(assumptions)),
+        capture=circuit.measured.capture if circuit.measured is not None else None,
     )
 
 

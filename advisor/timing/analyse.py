@@ -76,7 +76,7 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
         part=family.id, mode=model.mode, law=model.law, values=network_values(model), timing=timing,
         adjust=adjust, target=target, calibration=cal, trigger=trig, findings=findings,
         constants=dict(model.constants), tolerances=tolerances(circuit), assumptions=list(model.assumptions),
-        distribution=dist,
+        distribution=dist, capture=circuit.measured.capture if circuit.measured is not None else None,
     )
 
 

@@ -85,8 +85,13 @@ def _solve(evaluate, t: float) -> float:
 
 def design(
     family: Family, circuit: Circuit, *, series: str = "E24", keep_c: bool = True, limit: int = 5,
+    good_enough: float | None = None,
 ) -> DesignResult:
-    """Candidates (best first) for ``circuit.target`` on ``family``; see the module docstring."""
+    """Candidates (best first) for ``circuit.target`` on ``family``; see the module docstring.
+
+    ``good_enough``: when the existing capacitor already gives a network within this
+    relative error, other capacitors are not searched (a swap keeps C then anyway).
+    """
     target = circuit.target
     if target is None:
         raise InputError("design needs a target: --width, --period or --freq (or --range)")
@@ -114,12 +119,19 @@ def design(
         ))
 
     cands: list[Candidate] = []
-    c_choices = _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555)
-    kept = None
-    if keep_c and circuit.c is not None:
-        kept = circuit.c
-        c_choices = [kept] + [c for c in c_choices if abs(c / kept - 1) > 1e-9]
-    for c in c_choices:
+    kept = circuit.c if keep_c and circuit.c is not None else None
+
+    def c_choices():
+        if kept is not None:
+            yield kept
+            if good_enough is not None and any(
+                    cd.kept_c and abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0) <= good_enough for cd in cands):
+                return  # the existing capacitor is good enough: no other capacitor is searched
+        for c in _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555):
+            if kept is None or abs(c / kept - 1) > 1e-9:
+                yield c
+
+    for c in c_choices():
         nets = _networks(family, base.with_(c=c), q, t_goal, window, series, r_lo, r_hi, astable555, variable)
         if not nets and c == kept:
             assumptions.append(f"the existing {format_eng(kept, 'F')} needs a resistance outside "

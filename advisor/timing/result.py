@@ -30,6 +30,7 @@ class TimingResult:
     assumptions: list[str] = field(default_factory=list)
     distribution: object | None = None  # Distribution (Monte Carlo), when asked
     extra: dict = field(default_factory=dict)
+    capture: dict | None = None  # summary of the scope capture behind the measurement (advisor.measure.summary)
 
     def to_json(self) -> dict:
         out = {
@@ -46,6 +47,7 @@ class TimingResult:
             "constants": {k: _json(v) for k, v in self.constants.items()},
             "tolerances": dict(self.tolerances),
             "assumptions": list(self.assumptions),
+            "capture": self.capture,
         }
         if self.distribution is not None:
             out["distribution"] = _json(self.distribution)
