@@ -82,7 +82,7 @@ def test_555_control_voltage_moves_both_thresholds():
 
 def test_tlc555_formula_frequency_and_range_finding():
     # TI TLC555 SLFS043C: RA = 470 Ω, RB = 200 Ω, C = 200 pF -> the formula gives 8.3 MHz
-    # (the part runs at 2.1 MHz typ); the formula holds to about 100 kHz (references.md).
+    # (the part runs at 2.1 MHz typ); the same sheet says the equations hold to about 100 kHz.
     fam = make_family(
         "timer-555", {"upper_threshold": 2 / 3, "lower_threshold": 1 / 3}, function="timer-555",
         timing_extra={"f_max": {"value": 1e5, "source": "test"}},

@@ -116,6 +116,21 @@ class Waves:
     divide_by: int | None
     stays_high: bool
     note: str
+    # A scope capture drawn beside the prediction (advisor.report.capture), times in s
+    # from the capture's first trigger edge; None without a capture.
+    measured: tuple[tuple[float, float], ...] | None = None  # the measured output's high intervals
+    measured_name: str = "measured output"
+    measured_width: float | None = None  # the capture's median width (the JSON's capture.width)
+    trigger_high: tuple[tuple[float, float], ...] | None = None  # the captured trigger's high intervals
+
+
+@dataclass(frozen=True)
+class CaptureView:
+    """The capture behind the measurement, as the reports show it (from ``capture`` JSON)."""
+
+    caption: str  # names the file, the channels and the thresholds
+    facts: tuple[Quantity, ...]  # medians: width, period, delay
+    edges: tuple[tuple[str, tuple[Quantity, ...]], ...]  # (channel and edge, times), keys capture.<ch>.<edge>.<i>
 
 
 @dataclass(frozen=True)
@@ -163,6 +178,7 @@ class Report:
     cautions: list[str] = field(default_factory=list)
     sources: list[SourceView] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
+    capture: CaptureView | None = None
 
 
 # --------------------------------------------------------------------------- helpers

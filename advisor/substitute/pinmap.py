@@ -2,7 +2,7 @@
 
 Pins are compared by their normalised function (:data:`advisor.parts.PinFunction`),
 never by the makers' labels, because labels differ between makers for the same
-pin (references.md, pitfall 23). The map answers, for one old part → new part:
+pin (NXP vs TI/onsemi 74HC4538 sheets label the same pins differently). The map answers, for one old part → new part:
 
 - links: old pin → new pin carrying the same net (power, trigger, clear, outputs,
   timing network), with the channel each belongs to;

@@ -97,7 +97,7 @@ def _vih(fam: Family, vcc: float) -> float | None:
     if itf.vih_fraction is not None:
         return itf.vih_fraction.value * vcc
     if itf.inputs == "ttl":
-        return 2.0  # TTL-compatible input: VIH 2.0 V (references.md, logic-family levels)
+        return 2.0  # TTL-compatible input: VIH 2.0 V (HCT, AHCT and LS datasheets)
     return None
 
 

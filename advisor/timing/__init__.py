@@ -1,7 +1,7 @@
 """The timing engine: laws, worst-case band, Monte Carlo, adjustment, calibration,
 trigger-rate analysis and inverse design for 555-class timers and one-shots.
 
-Public API (see /work/shared/guide/design.md, "Command line contract"):
+Public API (the JSON keys follow the command-line contract in README.md and DEVELOPERS.md):
 
 - ``analyse(family, circuit) -> TimingResult``: timing of an existing circuit;
 - ``design(family, circuit, series="E24", keep_c=True, limit=5) -> DesignResult``;

@@ -29,7 +29,7 @@ from support.ngspice import crossings, run_transient
 
 VCC = 5.0
 TAU_BW = 0.2e-6  # s, scope/probe bandwidth time constant (about 0.8 MHz)
-# Switch models: Ron tiny against the timing resistors, Roff huge (references.md, ngspice notes);
+# Switch models: Ron tiny against the timing resistors, Roff huge (so they add nothing measurable to the RC law; common practice);
 # the one-shot's discharge switch gets 1 Ω so C empties in ~10 ns without stalling the step control
 # (it leaves VCC*1/R on C, 0.5 mV with 10 kΩ: 0.01 % of the width).
 _SWITCHES = """

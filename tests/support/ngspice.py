@@ -19,8 +19,8 @@ API (import as ``from support.ngspice import ...``)::
     low_times(t, v, level) -> np.ndarray        low times (falling to next rising)
     periods(t, v, level) -> np.ndarray          rising edge to next rising edge
 
-How it runs (see /work/shared/guide/references.md, "External references that run
-here"): the netlist goes to a temporary folder with a ``.control`` block doing
+How it runs (ngspice manual, batch mode and the .control section; the settings below were
+measured here): the netlist goes to a temporary folder with a ``.control`` block doing
 ``tran <tmax> <tstop> <tstart> <tmax> uic`` and ``wrdata`` (``set wr_singlescale``,
 ``set wr_vecnames``, ``option numdgt=12``); ``ngspice -n -b`` runs it. ngspice can exit 0
 after a failed run in ``.control`` mode, so the log is scanned for "timestep too
