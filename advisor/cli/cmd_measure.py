@@ -38,8 +38,8 @@ def register(p: argparse.ArgumentParser) -> None:
                     help="edge threshold as a fraction of the way from low to high level (default 0.5)")
     p.add_argument("--hysteresis", metavar="F", default="0.2",
                    help="width of the band an edge must cross, as a fraction of the swing (default 0.2)")
-    p.add_argument("--trigger-edge", choices=["rising", "falling"], default="rising",
-                   help="active edge of the trigger (default rising)")
+    p.add_argument("--trigger-edge", choices=["rising", "falling", "auto"], default="auto",
+                   help="active edge of the trigger (default auto: the edge the output pulses follow)")
     p.add_argument("--output-active", choices=["high", "low"], default="high",
                    help="level of the output during its pulse (default high; low for a Q-bar output)")
 

@@ -29,7 +29,7 @@ def measure_capture(
     threshold: float | None = None,
     fraction: float | None = None,
     hysteresis: float = DEFAULT_HYSTERESIS,
-    trigger_edge: Literal["rising", "falling"] = "rising",
+    trigger_edge: Literal["rising", "falling", "auto"] = "auto",
     output_active: Literal["high", "low"] = "high",
 ) -> MeasureResult:
     """Time every channel of ``capture`` and, given both channels, the pair."""
@@ -60,7 +60,7 @@ def measure_capture(
     if trigger_channel is not None:
         pair = pair_stats(edges[trigger_channel], edges[output_channel], trigger_channel=trigger_channel,
                           output_channel=output_channel, t_end=float(capture.time[-1]), trigger_edge=trigger_edge,
-                          output_active=output_active)
+                          output_active=output_active, tolerance=capture.sample_interval)
     return MeasureResult(capture.source, capture.n_samples, capture.duration, capture.sample_interval, capture.names,
                          channels, pair, skipped)
 

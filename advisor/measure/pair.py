@@ -51,16 +51,43 @@ class PairStats:
         }
 
 
+def active_edge(trigger: Edges, output: Edges, output_active: Literal["high", "low"] = "high",
+                tolerance: float = 0.0) -> str:
+    """The trigger edge that leads the output's pulses: the one with the shorter median
+    delay to the next pulse start. A one-shot fires within nanoseconds to microseconds
+    of its active edge, while the other edge of a trigger pulse sits a pulse width away
+    (or after the output has started), so the shorter delay names the active edge."""
+    starts = output.rising if output_active == "high" else output.falling
+    best, best_delay = "rising", np.inf
+    for edge, times in (("rising", trigger.rising), ("falling", trigger.falling)):
+        if times.size == 0 or starts.size == 0:
+            continue
+        who = np.searchsorted(times, starts + tolerance, side="right") - 1
+        ok = who >= 0
+        if not ok.any():
+            continue
+        delay = float(np.median(np.abs(starts[ok] - times[who[ok]])))
+        if delay < best_delay:
+            best, best_delay = edge, delay
+    return best
+
+
 def pair_stats(
     trigger: Edges, output: Edges, *, trigger_channel: int, output_channel: int, t_end: float,
-    trigger_edge: Literal["rising", "falling"] = "rising", output_active: Literal["high", "low"] = "high",
+    trigger_edge: Literal["rising", "falling", "auto"] = "auto", output_active: Literal["high", "low"] = "high",
+    tolerance: float = 0.0,
 ) -> PairStats:
+    """Trigger-to-output timing. ``tolerance`` (s, one sample interval) credits an output
+    start that interpolation placed just before its trigger edge to that trigger: with a
+    propagation delay shorter than a sample, the two edges share one sample interval."""
+    if trigger_edge == "auto":
+        trigger_edge = active_edge(trigger, output, output_active, tolerance)  # type: ignore[assignment]
     trig = trigger.rising if trigger_edge == "rising" else trigger.falling
     if trig.size == 0:
         raise CaptureError(f"trigger channel {trigger_channel} has no {trigger_edge} edge", hint="check --trigger-edge")
     starts = output.rising if output_active == "high" else output.falling
     ends = output.falling if output_active == "high" else output.rising
-    who = np.searchsorted(trig, starts, side="right") - 1
+    who = np.searchsorted(trig, starts + tolerance, side="right") - 1
     credited = who >= 0
     starts, who = starts[credited], who[credited]
     # One pulse per trigger: a second start credited to the same trigger is not a new firing.

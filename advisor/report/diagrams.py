@@ -25,6 +25,7 @@ INK = "#1f2a33"
 NAME = "#2b4c6f"
 ACCENT = "#b5562a"
 SKIP = "#8a8f94"
+MEASURED = "#2f7d6d"  # the scope capture's row
 FONT = "DejaVu Sans, Helvetica, Arial, sans-serif"
 
 #: Width of the timing picture in drawing units (the grid spans it).
@@ -66,8 +67,26 @@ def _segments(points: list[tuple[float, str]], end: float) -> tuple[str, list[fl
     return wave, times
 
 
+def _high_points(intervals, scale: float, end: float, min_width: float = 0.0) -> list[tuple[float, str]]:
+    """High intervals (s) to (time unit, state) steps, each pulse at least ``min_width`` wide."""
+    pts: list[tuple[float, str]] = []
+    cursor = 0.0
+    for a, b in intervals:
+        xa = a * scale
+        xb = min(max(b * scale, xa + min_width), end)
+        if xa > cursor or not pts:
+            if xa > cursor:
+                pts.append((cursor, "l"))
+            pts.append((xa, "h"))
+        if xb < end:
+            pts.append((xb, "l"))
+        cursor = xb
+    return pts
+
+
 def timing_svg(w: Waves) -> str:
-    """The timing picture as SVG text (trigger row when triggered, then outputs)."""
+    """The timing picture as SVG text (trigger row when triggered, then outputs; a
+    measured row last when the result carries a scope capture)."""
     schemdraw = _prepare()
     from schemdraw import elements as elm
     from schemdraw import logic
@@ -78,7 +97,7 @@ def timing_svg(w: Waves) -> str:
     unit = w.period or w.end
     span_units = w.end / unit
     if w.period:
-        span_units = int(round(span_units))  # schemdraw draws the grid over whole periods
+        span_units = max(1, int(round(span_units)))  # schemdraw draws the grid over whole periods
     hscale = _SPAN / (span_units * 2 * yheight)
     dx = 2 * yheight * hscale  # drawing units per time unit
     scale = 1.0 / unit  # time units per second
@@ -87,39 +106,40 @@ def timing_svg(w: Waves) -> str:
     if w.kind == "triggered":
         # Trigger pulses are drawn narrow: only their active edge matters to the part.
         pw = min(0.2 * (w.period or w.end) * scale, 0.35 / dx * 1.0)
-        idle, active = ("h", "l") if w.edge == "falling" else ("l", "h")
-        pts: list[tuple[float, str]] = [(0.0, idle)]
-        for t in w.triggers:
-            x = t * scale
-            if x <= 0:
-                pts = [(0.0, active)]
-            else:
-                pts.append((x, active))
-            pts.append((x + pw, idle))
-        wave, times = _segments(pts, end)
+        if w.trigger_high is not None:  # the captured trigger, each pulse at least visible
+            pts = _high_points(w.trigger_high, scale, end, pw)
+        else:
+            idle, active = ("h", "l") if w.edge == "falling" else ("l", "h")
+            pts = [(0.0, idle)]
+            for t in w.triggers:
+                x = t * scale
+                if x <= 0:
+                    pts = [(0.0, active)]
+                else:
+                    pts.append((x, active))
+                pts.append((x + pw, idle))
+        wave, times = _segments(pts or [(0.0, "l")], end)
         signals.append({"name": "trigger", "wave": wave, "async": times, "color": INK})
     for name, intervals, _width in w.rows:
-        pts = []
-        cursor = 0.0
-        for a, b in intervals:
-            xa, xb = a * scale, min(b * scale, end)
-            if xa > cursor or not pts:
-                if xa > cursor:
-                    pts.append((cursor, "l"))
-                pts.append((xa, "h"))
-            if xb < end:
-                pts.append((xb, "l"))
-            cursor = xb
-        wave, times = _segments(pts, end)
+        wave, times = _segments(_high_points(intervals, scale, end), end)
         signals.append({"name": name, "wave": wave, "async": times, "color": ACCENT if name == w.rows[-1][0] else INK})
     edges = []
-    last = len(signals) - 1
+    last = len(signals) - 1  # the predicted row the width is marked on
     name, intervals, width = w.rows[-1]
     if w.stays_high:
         edges.append(f"[{last}^:0]<->[{last}^:{end * 0.999:.5f}]{{{NAME}}} stays high: the pulse never ends")
     elif intervals and width:
         a, b = intervals[0]
         edges.append(f"[{last}^:{a * scale:.5f}]<->[{last}^:{b * scale:.5f}]{{{NAME}}} {format_eng(width, 's', 4)}")
+    if w.measured is not None:
+        wave, times = _segments(_high_points(w.measured, scale, end) or [(0.0, "l")], end)
+        signals.append({"name": w.measured_name, "wave": wave, "async": times, "color": MEASURED})
+        m = len(signals) - 1
+        whole = [(a, b) for a, b in w.measured if b * scale < end]  # a pulse that ends inside the window
+        if whole and w.measured_width:
+            a, b = whole[0]
+            edges.append(f"[{m}^:{a * scale:.5f}]<->[{m}^:{b * scale:.5f}]{{{MEASURED}}} "
+                         f"{format_eng(w.measured_width, 's', 4)} (median)")
     wavejson = {"signal": signals, "edge": edges, "config": {"hscale": hscale}}
     with schemdraw.Drawing(show=False) as d:
         d.config(fontsize=11, margin=0.5)
@@ -135,6 +155,8 @@ def timing_svg(w: Waves) -> str:
         if w.period:
             per = format_eng(w.period, "s", 4)
             what = "trigger period" if w.kind == "triggered" else "output period"
+            if w.measured is not None:
+                what = f"measured {what} (median)"
             ignored = not all(w.fired) and not w.stays_high
             d += elm.Label().at((0, bottom)).label(
                 f"grid: one {what} = {per}" + ("     × trigger ignored" if ignored else ""),
@@ -142,7 +164,8 @@ def timing_svg(w: Waves) -> str:
         else:
             d += elm.Label().at((0, bottom)).label(
                 f"window {format_eng(w.end, 's', 4)}", fontsize=9, color=SKIP, halign="left")
-    return _finish(d, "Timing picture: trigger and output")
+    title = "Timing picture: trigger and output" + (", predicted and measured" if w.measured is not None else "")
+    return _finish(d, title)
 
 
 # --------------------------------------------------------------------------- network

@@ -13,7 +13,7 @@ from html import escape
 
 from advisor import __version__
 from advisor.report import diagrams
-from advisor.report.model import Quantity, Report, Table
+from advisor.report.model import CaptureView, Quantity, Report, Table
 
 SEVERITY_TITLES = {"danger": "Stop: must be fixed", "warning": "Check before fitting", "note": "Worth knowing"}
 
@@ -49,6 +49,8 @@ td.num { font-variant-numeric: tabular-nums; white-space: nowrap; }
 figure { margin: 0; padding: .75rem; border: 1px solid var(--line); border-radius: .4rem; background: #fff; }
 figure svg.pic { display:block; max-width: 100%; height: auto; margin: 0 auto; }
 figcaption { color: var(--muted); font-size: .9rem; margin-top: .5rem; }
+details.capture-edges { margin-top: .5rem; font-size: .85rem; }
+table.capture-edges td span.num { display: inline-block; margin-right: .8rem; font-variant-numeric: tabular-nums; }
 ol.findings { list-style: none; padding: 0; }
 li.finding { border-left: 5px solid var(--note); background: var(--note-bg); padding: .5rem .8rem; margin: .5rem 0; border-radius: 0 .3rem .3rem 0; }
 li.sev-danger { border-color: var(--danger); background: var(--danger-bg); }
@@ -89,8 +91,12 @@ def _pictures(rep: Report) -> str:
     figs = []
     if rep.waves is not None:
         svg = diagrams.timing_svg(rep.waves)
+        cap = rep.capture
+        measured = cap is not None and rep.waves.measured is not None
         figs.append(f'<figure class="pic-timing">{svg}<figcaption>Pulse picture, drawn from the computed '
-                    f'nominal timing. {escape(rep.waves.note)}</figcaption></figure>')
+                    f'nominal timing{" beside the scope capture" if measured else ""}. {escape(rep.waves.note)}'
+                    + (f' <span class="capture-caption">{escape(cap.caption)}</span>' if measured else "")
+                    + f"</figcaption>{_capture_edges(cap) if cap is not None else ''}</figure>")
     for net in rep.networks:
         svg = diagrams.network_svg(net)
         rows = "".join(
@@ -105,6 +111,19 @@ def _pictures(rep: Report) -> str:
     if not figs:
         return ""
     return f'<section id="pictures"><h2>Pictures</h2><div class="pics">{"".join(figs)}</div></section>'
+
+
+def _capture_edges(cap: CaptureView) -> str:
+    """The captured edge times (s from the first trigger edge), one row per channel and edge."""
+    if not cap.edges:
+        return ""
+    rows = "".join(
+        f"<tr><th>{escape(label)}</th><td>"
+        + " ".join(f'<span class="num" data-key="{escape(q.key)}" data-si="{q.value!r}">{escape(q.text)}</span>'
+                   for q in times) + "</td></tr>"
+        for label, times in cap.edges)
+    return ('<details class="capture-edges"><summary>Captured edge times</summary>'
+            f'<table class="capture-edges"><tbody>{rows}</tbody></table></details>')
 
 
 def _findings(rep: Report) -> str:

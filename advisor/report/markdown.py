@@ -2,7 +2,8 @@
 
 Pictures become text: the pulse picture is a character strip (one column per
 1/64 of the window: ``‾`` high, ``_`` low; ``^`` a trigger that starts a pulse, ``x``
-one the part ignores) and the network is its parts table with the pins.
+one the part ignores; a scope capture adds a measured row and a table of its edge
+times) and the network is its parts table with the pins.
 """
 
 from __future__ import annotations
@@ -33,7 +34,8 @@ def _q_table(qs: list[Quantity]) -> list[str]:
 def strip(w: Waves) -> list[str]:
     """The pulse picture as fixed-width text rows (name, then the strip)."""
     step = w.end / COLUMNS
-    names = (["trigger"] if w.kind == "triggered" else []) + [r[0] for r in w.rows]
+    names = (["trigger"] if w.kind == "triggered" else []) + [r[0] for r in w.rows] + (
+        [w.measured_name] if w.measured is not None else [])
     pad = max(len(n) for n in names) + 2
     lines = []
     if w.kind == "triggered":
@@ -42,7 +44,8 @@ def strip(w: Waves) -> list[str]:
             i = min(COLUMNS - 1, int(round(t / step)))
             row[i] = "^" if fired else "x"
         lines.append("trigger".ljust(pad) + "".join(row))
-    for name, intervals, _ in w.rows:
+    rows = list(w.rows) + ([(w.measured_name, w.measured, w.measured_width)] if w.measured is not None else [])
+    for name, intervals, _ in rows:
         row = []
         for i in range(COLUMNS):
             mid = (i + 0.5) * step
@@ -72,6 +75,11 @@ def render_markdown(rep: Report) -> str:
         out += ["## Pictures", ""]
         if rep.waves is not None:
             out += ["### Pulse picture", "", "```text"] + strip(rep.waves) + ["```", "", rep.waves.note, ""]
+        if rep.capture is not None and rep.capture.edges:
+            out += ["### Captured edge times", "", rep.capture.caption, ""]
+            out += _table(Table(("channel and edge", "times"),
+                                tuple((label, ", ".join(q.text for q in times)) for label, times in rep.capture.edges)))
+            out.append("")
         for net in rep.networks:
             where = f"{net.package}, section 1" if net.package else "pin numbers not in the catalog"
             out += [f"### Timing network to fit on the {net.part} ({where})", ""]

@@ -529,6 +529,8 @@ def _check(result: dict, catalog: Any) -> Report:
     rep.networks = [net] if net else []
     rep.waves = build_waves(result.get("timing"), result.get("trigger"), mode=mode, name=f"{part} output",
                             edge=_catalog_edge(catalog, part))
+    _with_capture(rep, result.get("capture"), result.get("timing"), result.get("trigger"), mode=mode,
+                  name=f"{part} output")
     rep.findings = findings_of(result.get("findings"))
     nom = ((result.get("timing") or {}).get("nominal") or {})
     first = rep.facts[0].text if rep.facts else "no timing"
@@ -537,6 +539,22 @@ def _check(result: dict, catalog: Any) -> Report:
     rep.cautions = _cautions([part], catalog, rep.networks)
     rep.sources = sources_of(result, [part], catalog)
     return rep
+
+
+def _with_capture(rep: Report, capture: Any, timing: dict | None, trigger: dict | None, *, mode: str | None,
+                  name: str, old: tuple | None = None, fitted: str | None = None) -> None:
+    """A scope capture in the result: the picture over its window with the measured row,
+    its medians among the facts, its caption and edge times (advisor.report.capture)."""
+    from advisor.report.capture import capture_view, measured_waves
+
+    view = capture_view(capture, fitted=fitted)
+    if view is None:
+        return
+    waves = measured_waves(capture, timing, trigger, mode=mode, name=name, old=old)
+    if waves is not None:
+        rep.waves = waves
+    rep.capture = view
+    rep.facts.extend(view.facts)
 
 
 def _catalog_edge(catalog: Any, fid: str | None) -> str | None:
@@ -618,6 +636,8 @@ def _swap(result: dict, catalog: Any) -> Report:
     edge = (pol.get("edge") if isinstance(pol, dict) else None) or _catalog_edge(catalog, nfam)
     rep.waves = build_waves(new.get("timing"), trig, mode=mode, name=f"{nfam} output",
                             old=(f"{ofam} output", old.get("timing"), old.get("trigger")), edge=edge)
+    _with_capture(rep, result.get("capture"), new.get("timing"), trig, mode=mode, name=f"{nfam} output",
+                  old=(f"{ofam} output", old.get("timing"), old.get("trigger")), fitted=ofam)
     rep.findings = findings_of(result.get("findings"))
     rep.pin_map, rep.pin_tables, rep.pin_notes = pin_tables(result.get("pin_map"))
     rep.rework = rework_steps(result.get("rework"))
