@@ -16,7 +16,9 @@ the output channel with the same channel defaults as
 - ``window``: the span (s) the edges cover, from 0: whole trigger periods (at most
   :data:`MAX_PERIODS`), cut so no channel carries more than :data:`MAX_EDGES` edges;
 - ``trigger`` / ``output``: ``{"rising": [...], "falling": [...], "starts_high"}``
-  with the edge times (s) inside the window and the level just before 0;
+  with the edge times (s) inside the window and the level just before it; the window
+  is taken one sample early at both ends, so an output edge interpolated a hair
+  before its trigger edge stays with it (such a time is slightly negative);
 - ``width``, ``period``, ``delay``: medians over the whole capture (s): the output
   pulse width (the pair's, else the high time), the trigger period (else the output
   period), the trigger-to-output delay (pair only); ``triggers``, ``pulses``,
@@ -108,26 +110,31 @@ def _count(edges: Edges, t0: float, end: float) -> int:
     return int(_inside(edges.rising, t0, end).size + _inside(edges.falling, t0, end).size)
 
 
-def _window_end(anchor: np.ndarray, channels: list[Edges], t0: float, t_end: float) -> float:
+def _window_end(anchor: np.ndarray, channels: list[Edges], t0: float, t_end: float, tol: float) -> float:
     """End (capture time, s) of the summary's window: whole periods of ``anchor``, at most
-    MAX_PERIODS, with no channel over MAX_EDGES edges; else cut at the first edge too many."""
+    MAX_PERIODS, with no channel over MAX_EDGES edges; else cut at the first edge too many.
+    Edges are taken from ``t0 - tol`` to ``end - tol`` (see :func:`_edges_json`)."""
     for k in range(min(MAX_PERIODS, anchor.size - 1), 0, -1):
         end = float(anchor[k])
-        if all(_count(e, t0, end) <= MAX_EDGES for e in channels):
+        if all(_count(e, t0 - tol, end - tol) <= MAX_EDGES for e in channels):
             return end
-    end = float(np.nextafter(t_end, np.inf)) if anchor.size < 2 else float(anchor[1])
+    end = float(np.nextafter(t_end, np.inf)) + tol if anchor.size < 2 else float(anchor[1])
     for e in channels:
-        times = np.sort(np.concatenate((_inside(e.rising, t0, end), _inside(e.falling, t0, end))))
+        inside = (_inside(e.rising, t0 - tol, end - tol), _inside(e.falling, t0 - tol, end - tol))
+        times = np.sort(np.concatenate(inside))
         if times.size > MAX_EDGES:
-            end = float(times[MAX_EDGES])
+            end = float(times[MAX_EDGES]) + tol
     return end
 
 
-def _edges_json(edges: Edges, t0: float, end: float) -> dict:
+def _edges_json(edges: Edges, t0: float, end: float, tol: float) -> dict:
+    """Edge times relative to ``t0``. The span starts and ends one sample (``tol``) early:
+    an output that follows its trigger within a sample can be timed a hair before it
+    (interpolation), and belongs with that trigger, as in the pair's crediting."""
     return {
-        "starts_high": _level_before(edges, t0),
-        "rising": [float(t - t0) for t in _inside(edges.rising, t0, end)],
-        "falling": [float(t - t0) for t in _inside(edges.falling, t0, end)],
+        "starts_high": _level_before(edges, t0 - tol),
+        "rising": [float(t - t0) for t in _inside(edges.rising, t0 - tol, end - tol)],
+        "falling": [float(t - t0) for t in _inside(edges.falling, t0 - tol, end - tol)],
     }
 
 
@@ -148,11 +155,12 @@ def summarise(res: MeasureResult, capture: Capture, file: str, quantity: str, va
         period = out_ch.period.median
     t0 = float(anchor[0])
     channels = [out_ch.edges] + ([trig_ch.edges] if trig_ch is not None else [])
-    end = _window_end(anchor, channels, t0, float(capture.time[-1]))
+    tol = float(capture.sample_interval)
+    end = _window_end(anchor, channels, t0, float(capture.time[-1]), tol)
     window = min(end, float(capture.time[-1])) - t0
     trig_json = None
     if trig_ch is not None:
-        trig_json = {"edge": active, **_edges_json(trig_ch.edges, t0, end)}
+        trig_json = {"edge": active, **_edges_json(trig_ch.edges, t0, end, tol)}
     width = pair.width.median if pair is not None else out_ch.high.median
     return {
         "file": file,
@@ -169,7 +177,7 @@ def summarise(res: MeasureResult, capture: Capture, file: str, quantity: str, va
         "t0": t0,
         "window": float(window),
         "trigger": trig_json,
-        "output": _edges_json(out_ch.edges, t0, end),
+        "output": _edges_json(out_ch.edges, t0, end, tol),
         "width": None if width is None else float(width),
         "period": None if period is None else float(period),
         "delay": float(pair.delay.median) if pair is not None and pair.delay.median is not None else None,

@@ -38,20 +38,29 @@ def usable(capture: Any) -> bool:
             and isinstance(capture.get("output"), dict))
 
 
-def high_intervals(side: dict, end: float) -> tuple[tuple[float, float], ...]:
-    """Where a captured channel is high over [0, end), from its edges and its level before 0."""
+def level_intervals(side: dict, end: float, high: bool = True) -> tuple[tuple[float, float], ...]:
+    """Where a captured channel sits at the ``high`` (or low) level over the window up to
+    ``end``, from its edges and its level before the window. A run that began before the
+    window starts at 0 (or at the first edge, when that is a hair below 0)."""
     events = sorted([(t, True) for t in _times(side, "rising")] + [(t, False) for t in _times(side, "falling")])
-    start = 0.0 if side.get("starts_high") else None
+    first = min(0.0, events[0][0]) if events else 0.0
+    start = first if bool(side.get("starts_high")) == high else None
     out = []
     for t, up in events:
-        if up and start is None:
+        if up == high and start is None:
             start = t
-        elif not up and start is not None:
-            out.append((start, t))
+        elif up != high and start is not None:
+            if t > start:
+                out.append((start, t))
             start = None
-    if start is not None:
+    if start is not None and end > start:
         out.append((start, end))
     return tuple(out)
+
+
+def high_intervals(side: dict, end: float) -> tuple[tuple[float, float], ...]:
+    """Where a captured channel is high over the window up to ``end``."""
+    return level_intervals(side, end, True)
 
 
 def _pattern(trigger: Any) -> tuple[bool, int | None] | None:
@@ -61,6 +70,24 @@ def _pattern(trigger: Any) -> tuple[bool, int | None] | None:
     n = trigger.get("divide_by")
     ok = isinstance(n, (int, float)) and not isinstance(n, bool) and n >= 1
     return bool(trigger.get("stays_high")), int(n) if ok else None
+
+
+#: The result's trigger analysis is laid on the captured triggers only when its trigger
+#: period is the captured one within this fraction (a display choice of ours).
+SAME_PERIOD = 0.05
+
+
+def prediction_pattern(trigger: Any, capture: dict) -> tuple[tuple[bool, int | None] | None, str | None]:
+    """(stays_high, divide_by) to lay on the captured triggers, or None with the reason:
+    no trigger analysis in the result, or one made for another trigger period."""
+    pat = _pattern(trigger)
+    if pat is None:
+        return None, "the result carries no trigger analysis (give the trigger period)"
+    typed, seen = _num((trigger or {}).get("period")), _num(capture.get("period"))
+    if typed and seen and abs(typed / seen - 1) > SAME_PERIOD:
+        return None, (f"the trigger period given ({quantity('', typed, 's').text}) is not the captured one "
+                      f"({quantity('', seen, 's').text})")
+    return pat, None
 
 
 def _on_triggers(triggers: tuple[float, ...], width: float, pattern, end: float) -> tuple[tuple[float, float], ...]:
@@ -113,33 +140,36 @@ def measured_waves(capture: dict, timing: dict | None, trigger: dict | None, *, 
     triggers = tuple(t for t in _times(ctrig, edge) if t < end)
     if not triggers:
         return None
-    pat = _pattern(trigger)
+    pat, why = prediction_pattern(trigger, capture)
     rows = [(name, _on_triggers(triggers, width, pat, end), width)]
     if pat is None:
         fired = tuple(True for _ in triggers)  # the result says nothing about the later triggers
-        note = ("Triggers as captured. The result carries no trigger analysis (give the trigger period), so the "
-                "predicted row shows the pulse of the first trigger only.")
+        note = f"Triggers as captured. As {why}, the predicted row shows the pulse of the first trigger only."
         stays, n = False, None
     else:
         stays, n = pat
         fired = tuple(True for _ in triggers) if stays else tuple(k % (n or 1) == 0 for k in range(len(triggers)))
         note = ("Triggers as captured; the predicted row starts a pulse on "
                 + ("the first of them and every trigger restarts it, so it never falls." if stays else
-                   "every one of them." if (n or 1) == 1 else f"every {n}th of them, as the trigger analysis says."))
+                   "every one of them." if (n or 1) == 1 else f"every {_ordinal(n or 1)} of them, as the trigger analysis says."))
     if old is not None:
         oname, otiming, otrig = old
         ow = _num(((otiming or {}).get("nominal") or {}).get("width"))
         if ow:
-            rows.insert(0, (oname, _on_triggers(triggers, ow, _pattern(otrig), end), ow))
+            rows.insert(0, (oname, _on_triggers(triggers, ow, prediction_pattern(otrig, capture)[0], end), ow))
     return Waves("triggered", period, edge, triggers, fired, tuple(rows), end, n, stays, note,
-                 trigger_high=high_intervals(ctrig, end), **extra)
+                 trigger_pulses=level_intervals(ctrig, end, edge == "rising"), **extra)
+
+
+def _ordinal(n: int) -> str:
+    return f"{n}{'th' if 10 <= n % 100 <= 20 else {1: 'st', 2: 'nd', 3: 'rd'}.get(n % 10, 'th')}"
 
 
 def _channel(capture: dict, role: str) -> str:
     n = capture.get(f"{role}_channel")
     col = (capture.get("columns") or {}).get(role) if isinstance(capture.get("columns"), dict) else None
     th = (capture.get("threshold") or {}).get(role) if isinstance(capture.get("threshold"), dict) else None
-    text = f"{role} on channel {n}" + (f" ({col})" if col else "")
+    text = f"{role} on channel {n}" + (f', "{col}"' if col else "")
     if _num(th) is not None:
         text += f", edges at {quantity('', th, 'V').text}"
     return text

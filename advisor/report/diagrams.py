@@ -72,8 +72,10 @@ def _high_points(intervals, scale: float, end: float, min_width: float = 0.0) ->
     pts: list[tuple[float, str]] = []
     cursor = 0.0
     for a, b in intervals:
-        xa = a * scale
+        xa = max(a * scale, cursor)  # an edge a hair before the window's start is drawn at 0
         xb = min(max(b * scale, xa + min_width), end)
+        if xb <= xa:
+            continue
         if xa > cursor or not pts:
             if xa > cursor:
                 pts.append((cursor, "l"))
@@ -106,10 +108,12 @@ def timing_svg(w: Waves) -> str:
     if w.kind == "triggered":
         # Trigger pulses are drawn narrow: only their active edge matters to the part.
         pw = min(0.2 * (w.period or w.end) * scale, 0.35 / dx * 1.0)
-        if w.trigger_high is not None:  # the captured trigger, each pulse at least visible
-            pts = _high_points(w.trigger_high, scale, end, pw)
+        idle, active = ("h", "l") if w.edge == "falling" else ("l", "h")
+        if w.trigger_pulses is not None:  # the captured trigger pulses, each at least visible
+            pts = [(x, idle if v == "l" else active) for x, v in _high_points(w.trigger_pulses, scale, end, pw)]
+            if not pts or pts[0][0] > 0:
+                pts.insert(0, (0.0, idle))
         else:
-            idle, active = ("h", "l") if w.edge == "falling" else ("l", "h")
             pts = [(0.0, idle)]
             for t in w.triggers:
                 x = t * scale
@@ -139,7 +143,7 @@ def timing_svg(w: Waves) -> str:
         if whole and w.measured_width:
             a, b = whole[0]
             edges.append(f"[{m}^:{a * scale:.5f}]<->[{m}^:{b * scale:.5f}]{{{MEASURED}}} "
-                         f"{format_eng(w.measured_width, 's', 4)} (median)")
+                         f"{format_eng(w.measured_width, 's', 4)}")
     wavejson = {"signal": signals, "edge": edges, "config": {"hscale": hscale}}
     with schemdraw.Drawing(show=False) as d:
         d.config(fontsize=11, margin=0.5)

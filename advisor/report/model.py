@@ -121,7 +121,8 @@ class Waves:
     measured: tuple[tuple[float, float], ...] | None = None  # the measured output's high intervals
     measured_name: str = "measured output"
     measured_width: float | None = None  # the capture's median width (the JSON's capture.width)
-    trigger_high: tuple[tuple[float, float], ...] | None = None  # the captured trigger's high intervals
+    # The captured trigger's pulses: intervals at its active level (low for a falling edge).
+    trigger_pulses: tuple[tuple[float, float], ...] | None = None
 
 
 @dataclass(frozen=True)

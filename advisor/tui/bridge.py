@@ -45,6 +45,18 @@ FIELDS: tuple[FieldSpec, ...] = (
 )
 FIELD_BY_KEY = {f.key: f for f in FIELDS}
 
+#: The optional scope capture: read like ``--measured-from`` (advisor.measure.summary);
+#: kept apart from FIELDS because it is a file, not a quantity.
+CAPTURE_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("capture", "Capture file", "file", "scope CSV, optional",
+              "a scope capture (CSV) of the real circuit: its median output width (period for an astable) "
+              "calibrates the timing"),
+    FieldSpec("trigger_channel", "Trigger ch.", "channel", "1", "capture channel on the trigger (blank: 1)"),
+    FieldSpec("output_channel", "Output ch.", "channel", "2",
+              "capture channel on the output (blank: 2, or 1 for a one-channel capture)"),
+)
+ALL_FIELDS: tuple[FieldSpec, ...] = FIELDS + CAPTURE_FIELDS
+
 
 #: Command-line flags the engine's messages name, and the form field a workbench user edits.
 _FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "rb": "RB", "c": "C",
@@ -120,7 +132,7 @@ class Outcome:
         if self.kind == "swap":
             new = self.data.get("new") or {}
             out = dict(new) if isinstance(new, dict) else {}
-            for key in ("timing", "trigger", "mode"):
+            for key in ("timing", "trigger", "mode", "capture"):
                 if self.data.get(key) is not None:
                     out.setdefault(key, self.data[key])
             return out
@@ -149,7 +161,56 @@ def sorted_findings(items: list) -> list[dict]:
     return sorted(out, key=lambda d: SEVERITY_ORDER.get(str(d.get("severity")), 9))
 
 
-def build_circuit(part: str, v: dict[str, object]) -> Circuit:
+def parse_capture_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]]:
+    """The capture's path (``~`` expanded, surrounding quotes dropped) and channel numbers;
+    (values, errors by field key). The file itself is read later, by :func:`read_measurement`."""
+    import os
+
+    values: dict[str, object] = {"capture": None, "trigger_channel": None, "output_channel": None}
+    errors: dict[str, str] = {}
+    path = (raw.get("capture") or "").strip()
+    if len(path) >= 2 and path[0] == path[-1] and path[0] in "'\"":
+        path = path[1:-1].strip()
+    values["capture"] = os.path.expanduser(path) if path else None
+    for key in ("trigger_channel", "output_channel"):
+        text = (raw.get(key) or "").strip()
+        if not text:
+            continue
+        if text.isdigit() and int(text) >= 1:
+            values[key] = int(text)
+        else:
+            errors[key] = f"cannot read {text!r} as a channel; expected a channel number such as 1 or 2"
+    return values, errors
+
+
+#: Recently read captures: (path, size, mtime, quantity, channels) -> Measurement, so a
+#: change in another field does not read the file again.
+_CAPTURES: dict[tuple, object] = {}
+_CAPTURES_KEPT = 4
+
+
+def read_measurement(path: str, mode: str | None, trigger_channel: int | None, output_channel: int | None):
+    """The capture's Measurement, exactly as ``--measured-from`` makes it (raises CaptureError)."""
+    import os
+
+    from advisor.measure.summary import capture_measurement
+
+    try:
+        st = os.stat(path)
+        key = (os.path.abspath(path), st.st_size, st.st_mtime_ns, mode, trigger_channel, output_channel)
+    except OSError:
+        key = None  # let the reader say what is wrong with the path
+    if key is not None and key in _CAPTURES:
+        return _CAPTURES[key]
+    m = capture_measurement(path, mode=mode, trigger_channel=trigger_channel, output_channel=output_channel)
+    if key is not None:
+        _CAPTURES[key] = m
+        while len(_CAPTURES) > _CAPTURES_KEPT:
+            _CAPTURES.pop(next(iter(_CAPTURES)))
+    return m
+
+
+def build_circuit(part: str, v: dict[str, object], measured=None) -> Circuit:
     """The form's values as one validated circuit (mode astable when RB is given)."""
     mode = "astable" if v.get("rb") is not None else None
     return Circuit(
@@ -162,12 +223,16 @@ def build_circuit(part: str, v: dict[str, object]) -> Circuit:
         pot=v.get("pot"),  # type: ignore[arg-type]
         pot_setting=v.get("pot_setting"),  # type: ignore[arg-type]
         trigger=Trigger(period=v.get("trigger_period")),  # type: ignore[arg-type]
+        measured=measured,
     )
 
 
 def evaluate(catalog, raw: dict[str, str]) -> Outcome:
     """Parse the form and run the check or the swap; never raises."""
     values, errors = parse_fields(raw)
+    cap_values, cap_errors = parse_capture_fields(raw)
+    values.update(cap_values)
+    errors.update(cap_errors)
     old = values.get("old")
     if not old:
         return Outcome("empty", field_errors=errors, hint="Type the part on the board (F2 looks parts up).")
@@ -204,16 +269,24 @@ def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Out
         return Outcome("error", field_errors=errors, part=old_fam.id, problem="fix the marked field to recompute")
     if values.get("pot_setting") is not None and values.get("pot") is None:
         return Outcome("error", part=old_fam.id, field_errors={"pot_setting": "a pot setting needs the pot's value; fill in Pot"})
+    measured = None
+    if values.get("capture"):
+        try:
+            measured = read_measurement(str(values["capture"]), "astable" if values.get("rb") is not None else None,
+                                        values.get("trigger_channel"), values.get("output_channel"))  # type: ignore[arg-type]
+        except RetimeError as exc:
+            return Outcome("error", part=old_fam.id, field_errors={"capture": exc.render()},
+                           problem="the capture cannot be used: see its field")
     if new_query and new_fam is not None:
         from advisor.substitute import swap
 
-        circuit = build_circuit(old_fam.id, values)
+        circuit = build_circuit(old_fam.id, values, measured)
         result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"))
         data = result.to_json()
         return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
     from advisor.checking import check_circuit
 
-    circuit = build_circuit(old_fam.id, values)
+    circuit = build_circuit(old_fam.id, values, measured)
     data = check_circuit(old_fam, circuit, new_vcc=values.get("new_vcc")).to_json()
     return Outcome("check", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id)
 

@@ -15,6 +15,7 @@ DANGER = "#ef6351"
 WARNING = "#e6c44d"
 NOTE = "#8ab4d8"
 GOOD = "#7cc27a"
+VIOLET = "#b99ae0"  # measured signal (a scope capture)
 
 STYLE: dict[str, str] = {
     "id": f"bold {AMBER}",
@@ -31,6 +32,7 @@ STYLE: dict[str, str] = {
     "trigger": TEAL,
     "output": AMBER,
     "skip": DANGER,
+    "measured": VIOLET,
 }
 
 #: Word and mark per severity, so the meaning never rests on colour alone.

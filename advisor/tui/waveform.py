@@ -35,6 +35,8 @@ class Layout:
     marks: list[tuple[float, str]]  # (time, "fire" | "skip" | "restart")
     caption: str
     has_trigger: bool
+    measured_high: list[tuple[float, float]] | None = None  # the scope capture's output, when given
+    trigger_active_low: bool = False  # trigger_high holds low pulses (a captured falling-edge trigger)
 
 
 def _num(d: dict | None, *keys: str) -> float | None:
@@ -49,12 +51,20 @@ def _num(d: dict | None, *keys: str) -> float | None:
 
 
 def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
-    """Edges to draw for a result's ``timing``/``trigger`` JSON, or None when it has none."""
+    """Edges to draw for a result's ``timing``/``trigger`` JSON, or None when it has none.
+
+    With a scope capture in the result (``capture``) the picture spans the capture's
+    window and adds the measured output (see :func:`_with_capture`).
+    """
     if not isinstance(result, dict):
         return None
     nominal = (result.get("timing") or {}).get("nominal") if isinstance(result.get("timing"), dict) else None
     width = _num(nominal, "width")
     high, low = _num(nominal, "high"), _num(nominal, "low")
+    from advisor.report.capture import usable
+
+    if usable(result.get("capture")):
+        return _with_capture(result, result["capture"], width, high, low)
     if width is None and high is not None and low is not None:
         period = high + low
         n = 4
@@ -104,6 +114,75 @@ def lay_out(result: dict | None, max_triggers: int = 12) -> Layout | None:
     return Layout(span, trig_high, out, marks, caption, True)
 
 
+def _with_capture(result: dict, cap: dict, width: float | None, high: float | None, low: float | None) -> Layout | None:
+    """The capture's window: captured trigger, the prediction laid on the captured trigger
+    edges (every n-th when the result divides by n; the first only without a trigger
+    analysis), and the measured output. Times in the capture are from its first trigger
+    edge (or its output's first rising edge); the picture starts a little before it."""
+    from advisor.report.capture import level_intervals
+
+    window = float(cap["window"])
+    period = _num(cap, "period")
+    lead = 0.3 * period if period and period < window else 0.05 * window
+    span = lead + window
+
+    def shifted(side: dict, high: bool = True) -> list[tuple[float, float]]:
+        """Runs at the level, moved right by the lead; one already running at the start
+        of the window is drawn from the picture's left edge."""
+        runs = level_intervals(side, window, high)
+        already = bool(side.get("starts_high")) == high
+        return [(0.0 if k == 0 and already else a + lead, b + lead) for k, (a, b) in enumerate(runs)]
+
+    measured = shifted(cap["output"])
+    name = str(cap.get("name") or "capture")
+    if width is None and high is not None and low is not None:
+        p = high + low
+        out = [(lead + k * p, lead + k * p + high) for k in range(int(window / p) + 1)]
+        mh = _num(cap, "width")
+        caption = (f"predicted high {format_eng(high, 's')}, low {format_eng(low, 's')}; measured ({name}) high "
+                   + (format_eng(mh, "s") if mh else "—") + (f", period {format_eng(period, 's')}" if period else ""))
+        return Layout(span, [], out, [], caption, False, measured)
+    if width is None:
+        return None
+    ctrig = cap.get("trigger")
+    mw = _num(cap, "width")
+    said = f"measured ({name}) {format_eng(mw, 's') if mw else '—'}"
+    if not isinstance(ctrig, dict):
+        return Layout(span, [(lead, lead + 1e-6 * span)], [(lead, lead + width)], [(lead, "fire")],
+                      f"pulse {format_eng(width, 's')} predicted, {said}; no trigger channel captured", True, measured)
+    edge = "falling" if ctrig.get("edge") == "falling" else "rising"
+    times = [lead + float(t) for t in ctrig.get(edge) or [] if isinstance(t, (int, float)) and t < window]
+    if not times:
+        return None
+    from advisor.report.capture import prediction_pattern
+
+    pattern, why = prediction_pattern(result.get("trigger"), cap)
+    known = pattern is not None
+    stays, divide = pattern if pattern is not None else (False, 1)
+    divide = divide or 1
+    marks: list[tuple[float, str]] = []
+    out: list[tuple[float, float]] = []
+    if stays:
+        out = [(times[0], span * 1.01)]
+        marks = [(t, "fire" if k == 0 else "restart") for k, t in enumerate(times)]
+    elif not known:
+        out = [(times[0], times[0] + width)]
+        marks = [(times[0], "fire")]
+    else:
+        for k, t in enumerate(times):
+            marks.append((t, "fire" if k % divide == 0 else "skip"))
+            if k % divide == 0:
+                out.append((t, t + width))
+    caption = f"pulse {format_eng(width, 's')} predicted, {said}"
+    if not known:
+        caption += f"; first predicted pulse only: {why}"
+    elif stays:
+        caption += "; predicted: each trigger restarts the pulse"
+    elif divide > 1:
+        caption += f"; predicted: 1 trigger in {divide} fires"
+    return Layout(span, shifted(ctrig, edge == "rising"), out, marks, caption, True, measured, edge == "falling")
+
+
 def _col(t: float, dt: float, cols: int) -> int:
     """Column whose centre is the first at or after time ``t``."""
     return max(0, min(cols - 1, math.ceil(t / dt - 0.5)))
@@ -148,7 +227,10 @@ def draw(result: dict | None, width: int = 80) -> Text:
     cols = max(20, width - LABEL_W - 1)
     text = Text()
     if lay.has_trigger:
-        top, bot = _rows(_levels(lay.trigger_high, lay.span, cols))
+        levels = _levels(lay.trigger_high, lay.span, cols)
+        if lay.trigger_active_low:  # low pulses on a high line, each at least one column
+            levels = [not v for v in levels]
+        top, bot = _rows(levels)
         text.append(f"{'trigger':<{LABEL_W}}", style=STYLE["dim"]); text.append(top + "\n", style=STYLE["trigger"])
         text.append(" " * LABEL_W); text.append(bot + "\n", style=STYLE["trigger"])
         row = [" "] * cols
@@ -164,6 +246,10 @@ def draw(result: dict | None, width: int = 80) -> Text:
     top, bot = _rows(_levels(lay.output_high, lay.span, cols))
     text.append(f"{'output':<{LABEL_W}}", style=STYLE["dim"]); text.append(top + "\n", style=STYLE["output"])
     text.append(" " * LABEL_W); text.append(bot + "\n", style=STYLE["output"])
+    if lay.measured_high is not None:
+        top, bot = _rows(_levels(lay.measured_high, lay.span, cols))
+        text.append(f"{'measured':<{LABEL_W}}", style=STYLE["dim"]); text.append(top + "\n", style=STYLE["measured"])
+        text.append(" " * LABEL_W); text.append(bot + "\n", style=STYLE["measured"])
     end = format_eng(lay.span, "s", 3)
     axis = "0" + " " * max(1, cols - 1 - len(end)) + end
     text.append(" " * LABEL_W); text.append(axis + "\n", style=STYLE["dim"])

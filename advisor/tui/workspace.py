@@ -18,7 +18,7 @@ from textual.screen import Screen
 from textual.timer import Timer
 from textual.widgets import Footer, Input, Label, Static
 
-from advisor.tui.bridge import FIELDS, Outcome, evaluate
+from advisor.tui.bridge import ALL_FIELDS, CAPTURE_FIELDS, FIELDS, Outcome, evaluate
 from advisor.tui.palette import SEVERITY_MARK, STYLE
 from advisor.tui.waveform import TimingPicture
 from advisor.values import format_code, format_eng
@@ -97,6 +97,9 @@ def _extras(data: dict) -> list:
     cal = data.get("calibration")
     if isinstance(cal, dict) and cal.get("factor") is not None:
         out.append(Text(f"calibrated from the measured {cal.get('quantity', 'time')}: ×{cal['factor']:.4g}", style=STYLE["key"]))
+    cap = data.get("capture")
+    if isinstance(cap, dict):
+        out.append(capture_line(cap))
     trig = data.get("trigger")
     if isinstance(trig, dict) and trig.get("period"):
         line = Text("trigger every ", style=STYLE["dim"])
@@ -118,6 +121,27 @@ def _extras(data: dict) -> list:
             line.append(" (tolerances assumed)", style=STYLE["dim"])
         out.append(line)
     return out
+
+
+def capture_line(cap: dict) -> Text:
+    """Where the measurement came from: the capture, its channels and its medians."""
+    line = Text("capture ", style=STYLE["dim"])
+    line.append(str(cap.get("name") or cap.get("file") or "?"), style=STYLE["measured"])
+    chans = f"ch {cap.get('output_channel')} output"
+    if cap.get("trigger_channel") is not None:
+        chans = f"ch {cap['trigger_channel']} trigger, " + chans
+    line.append(f"  {chans}", style=STYLE["dim"])
+    for key, label in (("value", f"measured {cap.get('quantity', 'time')}"), ("period", "period")):
+        v = cap.get(key)
+        if isinstance(v, (int, float)) and not isinstance(v, bool):
+            line.append(f"  {label} ", style=STYLE["dim"])
+            line.append(format_eng(float(v), "s"), style=STYLE["key"])
+    line.append(" (medians)", style=STYLE["dim"])
+    if isinstance(cap.get("divide_by"), int) and cap["divide_by"] > 1:
+        line.append(f"; 1 trigger in {cap['divide_by']} fired", style=STYLE["warning"])
+    if cap.get("stays_active"):
+        line.append("; the output stayed high", style=STYLE["warning"])
+    return line
 
 
 def findings_view(findings: list[dict]) -> Table | Text:
@@ -256,10 +280,10 @@ class WorkspaceScreen(Screen):
         with Horizontal(id="ws"):
             with VerticalScroll(id="form"):
                 for spec in FIELDS:
-                    with Horizontal(classes="field-row"):
-                        yield Label(spec.label, classes="field-label")
-                        yield Input(placeholder=spec.placeholder, id=f"f-{spec.key}", tooltip=spec.tip)
-                    yield Static("", id=f"e-{spec.key}", classes="field-error")
+                    yield from self._field(spec)
+                yield Static("Scope capture (optional)", id="capture-heading")
+                for spec in CAPTURE_FIELDS:
+                    yield from self._field(spec)
                 yield Static("", id="form-note")
             with VerticalScroll(id="outcome"):
                 yield Static("", id="headline")
@@ -269,6 +293,13 @@ class WorkspaceScreen(Screen):
                 yield Static("", id="pins", classes="panel")
                 yield Static("", id="rework", classes="panel")
         yield Footer()
+
+    @staticmethod
+    def _field(spec) -> ComposeResult:
+        with Horizontal(classes="field-row"):
+            yield Label(spec.label, classes="field-label")
+            yield Input(placeholder=spec.placeholder, id=f"f-{spec.key}", tooltip=spec.tip)
+        yield Static("", id=f"e-{spec.key}", classes="field-error")
 
     def on_mount(self) -> None:
         self.query_one("#form").border_title = "Circuit"
@@ -304,7 +335,7 @@ class WorkspaceScreen(Screen):
         self._timer = self.set_timer(DEBOUNCE, self.recompute)
 
     def raw_fields(self) -> dict[str, str]:
-        return {spec.key: self.query_one(f"#f-{spec.key}", Input).value for spec in FIELDS}
+        return {spec.key: self.query_one(f"#f-{spec.key}", Input).value for spec in ALL_FIELDS}
 
     def recompute(self) -> None:
         """Read the form, ask the engine, render; never raises."""
@@ -314,7 +345,7 @@ class WorkspaceScreen(Screen):
         self.show(outcome)
 
     def show(self, out: Outcome) -> None:
-        for spec in FIELDS:
+        for spec in ALL_FIELDS:
             err = self.query_one(f"#e-{spec.key}", Static)
             msg = out.field_errors.get(spec.key)
             err.update(Text(f"↳ {msg}", style=STYLE["danger"]) if msg else "")
@@ -395,7 +426,7 @@ class WorkspaceScreen(Screen):
 
     # --- actions --------------------------------------------------------------------
     def action_clear_form(self) -> None:
-        for spec in FIELDS:
+        for spec in ALL_FIELDS:
             self.query_one(f"#f-{spec.key}", Input).value = ""
         self.query_one("#f-old", Input).focus()
 
