@@ -58,12 +58,18 @@ def _circuit(raw: dict, where: str) -> Circuit:
     for key, text in raw.items():
         if key in _QUANTITY:
             v[key] = parse_quantity(str(text), _QUANTITY[key], zero_ok=True if _QUANTITY[key] == "fraction" else None)
-        elif key not in ("mode", "trigger_edge"):
+        elif key not in ("mode", "trigger_edge", "measured_from"):
             raise DataError(f"{where}.{key}: unknown circuit key")
     measured = None
     for q in ("width", "high", "low", "period"):
         if f"measured_{q}" in v:
             measured = Measurement(q, v[f"measured_{q}"])
+    if "measured_from" in raw:
+        # A scope capture shipped beside the scenario (trigger on CH1, output on CH2).
+        from advisor.measure.summary import capture_measurement
+
+        measured = capture_measurement(data_dir("demo") / str(raw["measured_from"]), mode=raw.get("mode"),
+                                       trigger_channel=1, output_channel=2)
     return Circuit(
         part="", vcc=v.get("vcc"), mode=raw.get("mode"), r=v.get("r"), ra=v.get("ra"), rb=v.get("rb"),
         c=v.get("c"), pot=v.get("pot"), pot_setting=v.get("pot_setting"), r_tol=v.get("r_tol"), c_tol=v.get("c_tol"),
