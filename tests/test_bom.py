@@ -167,3 +167,15 @@ def test_cli_bom_round_trip_and_errors(tmp_path):
     nocol = write_csv(tmp_path / "nocol.csv", [["a", "b"], ["1", "2"]])
     bad = run_cli("bom", str(nocol))
     assert bad.returncode == 2 and "Traceback" not in bad.stderr and "--part-column" in bad.stderr
+
+
+def test_parallel_review_equals_the_single_process_one(tmp_path, catalog):
+    """Property: the process pool changes the speed, never the answer."""
+    rows = [["MPN", "Rext", "Cext", "VCC"]]
+    parts = ["SN74LS221N", "NE555P", "CD4538BE", "74HC123PW"]
+    for i, part in enumerate(parts * 8):
+        rows.append([part, ["10k", "22k", "47k", "100k"][i % 4], ["10n", "100n"][i % 2], ["5", "12"][(i // 4) % 2]])
+    src = write_csv(tmp_path / "bom.csv", rows)
+    one = review_bom(read_table(src), catalog, workers=1)
+    two = review_bom(read_table(src), catalog, workers=2)
+    assert [r.to_json() for r in one.reviews] == [r.to_json() for r in two.reviews]

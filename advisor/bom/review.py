@@ -120,37 +120,62 @@ def review_bom(
     vcc: float | None = None,
     limit: int = 3,
     progress: Callable[[int, int], None] | None = None,
+    workers: int | None = None,
 ) -> BomResult:
-    """Review every data row of ``table``; never drops a row."""
+    """Review every data row of ``table``; never drops a row.
+
+    Three passes: read every row (status, family, values) and collect the distinct
+    jobs; judge each distinct job once (in ``workers`` processes when there are many
+    and the machine has more than one core); then give every row its job's answer.
+    """
     from advisor.partnumber import recognise_many
 
     cols = locate_columns(table, part_column)
     data_idx = [i for i in range(table.header_row + 1, len(table.rows))]
     queries = {_cell(table.rows[i], cols.part) for i in data_idx} - {""}
     matches = recognise_many(catalog, sorted(queries))
-    reviews: list[RowReview] = []
-    cache: dict[tuple, RowReview] = {}
-    shortlists: dict[tuple, object] = {}
-    total = len(data_idx)
-    for n, i in enumerate(data_idx, 1):
-        row = table.rows[i]
-        reviews.append(_review_row(i, row, cols, catalog, matches, cache, shortlists, new_vcc, vcc, limit))
-        if progress is not None and (n % 200 == 0 or n == total):
-            progress(n, total)
+    read = [_read_row(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
+    jobs = list(dict.fromkeys(r.job for r in read if r.job is not None))
+    answers = _judge(jobs, catalog, limit, progress, workers)
+    reviews = [r.finish(answers) for r in read]
+    if progress is not None and reviews:
+        progress(len(reviews), len(reviews))
     return BomResult(table, cols, reviews, new_vcc)
 
 
-def _review_row(i, row, cols, catalog, matches, cache, shortlists, new_vcc, vcc, limit) -> RowReview:
+@dataclass
+class _Read:
+    """One row after the first pass: a final review, or a job whose answer it waits for."""
+
+    review: RowReview
+    job: tuple | None = None  # (family, supply, r, rb, c, new_vcc)
+
+    def finish(self, answers: dict) -> RowReview:
+        if self.job is None:
+            return self.review
+        base = answers[self.job]
+        rev = self.review
+        reason = base.reason
+        if rev.status == "check-match":
+            reason = (f"closest family {rev.family} at score {rev.score:.0f}: confirm the part number"
+                      + (f"; {reason}" if reason else ""))
+        return RowReview(
+            rev.index, rev.status, family=rev.family, score=rev.score, best_alternate=base.best_alternate,
+            best_class=base.best_class, alternates=base.alternates, findings=base.findings, reason=reason,
+        )
+
+
+def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
     if not any(c.strip() for c in row):
-        return RowReview(i, "no-part-number", reason="empty row")
+        return _Read(RowReview(i, "no-part-number", reason="empty row"))
     if cols.part >= len(row):
-        return RowReview(i, "unreadable", reason=f"row has {len(row)} cells; the part column is number {cols.part + 1}")
+        return _Read(RowReview(i, "unreadable", reason=f"row has {len(row)} cells; the part column is number {cols.part + 1}"))
     query = _cell(row, cols.part)
     if not query:
-        return RowReview(i, "no-part-number", reason="part-number cell is empty")
+        return _Read(RowReview(i, "no-part-number", reason="part-number cell is empty"))
     found = matches.get(query) or []
     if not found or (found[0].how == "fuzzy" and found[0].score < MAYBE_SCORE):
-        return RowReview(i, "out-of-scope", reason="not a timer or one-shot in the catalog")
+        return _Read(RowReview(i, "out-of-scope", reason="not a timer or one-shot in the catalog"))
     best = found[0]
     try:
         r = _opt(row, cols.r, "resistance")
@@ -158,21 +183,12 @@ def _review_row(i, row, cols, catalog, matches, cache, shortlists, new_vcc, vcc,
         c = _opt(row, cols.c, "capacitance")
         row_vcc = _opt(row, cols.vcc, "voltage")
     except RetimeError as exc:
-        return RowReview(i, "unreadable", family=best.family, score=best.score, reason=exc.message)
+        return _Read(RowReview(i, "unreadable", family=best.family, score=best.score, reason=exc.message))
     fam = catalog.get(best.family)
     supply = row_vcc or vcc or _default_vcc(fam)
-    key = (best.family, supply, r, rb, c, new_vcc)
-    if key not in cache:
-        cache[key] = _alternates_for(fam, supply, r, rb, c, new_vcc, catalog, limit, shortlists)
-    base = cache[key]
     status = "reviewed" if best.how != "fuzzy" else "check-match"
-    reason = base.reason
-    if status == "check-match":
-        reason = f"closest family {best.family} at score {best.score:.0f}: confirm the part number" + (f"; {reason}" if reason else "")
-    return RowReview(
-        i, status, family=best.family, score=round(best.score, 1), best_alternate=base.best_alternate,
-        best_class=base.best_class, alternates=base.alternates, findings=base.findings, reason=reason,
-    )
+    return _Read(RowReview(i, status, family=best.family, score=round(best.score, 1)),
+                 (best.family, supply, r, rb, c, new_vcc))
 
 
 def _opt(row: list[str], idx: int | None, kind: str) -> float | None:
@@ -191,27 +207,89 @@ def _default_vcc(fam) -> float:
 #: with values; only drop-in vs drop-in-new-values, the timing error and value findings
 #: do, so the whole-catalog search runs once per part and supply, not once per line.
 SHORTLIST = 8
+#: Below this many distinct jobs the review runs in this process (a pool costs more).
+PARALLEL_MIN = 24
+
+_CATALOG = None  # the catalog the worker processes read (inherited when they fork)
 
 
-def _alternates_for(fam, vcc, r, rb, c, new_vcc, catalog, limit, shortlists: dict) -> RowReview:
+def _judge(jobs: list[tuple], catalog, limit: int, progress, workers: int | None) -> dict:
+    """The answer (a RowReview with alternates) for every distinct job."""
+    global _CATALOG
+    _CATALOG = catalog
+    refs = list(dict.fromkeys(_ref_key(j) for j in jobs))
+    pool = _pool(len(jobs), workers)
+    try:
+        mapper = pool.imap if pool is not None else map
+        shortlists = dict(zip(refs, mapper(_reference_job, refs)))
+        tasks = [(j, limit, shortlists[_ref_key(j)]) for j in jobs]
+        answers: dict = {}
+        for n, (job, answer) in enumerate(zip(jobs, mapper(_values_job, tasks)), 1):
+            answers[job] = answer
+            if progress is not None and n % 10 == 0:
+                progress(n, len(jobs))
+        return answers
+    finally:
+        if pool is not None:
+            pool.close()
+            pool.join()
+
+
+def _pool(n_jobs: int, workers: int | None):
+    """A fork-based process pool when it pays (many jobs, several cores), else None."""
+    import multiprocessing
+    import os
+
+    count = workers if workers is not None else min(os.cpu_count() or 1, 8)
+    if count < 2 or n_jobs < PARALLEL_MIN or "fork" not in multiprocessing.get_all_start_methods():
+        return None
+    return multiprocessing.get_context("fork").Pool(count)
+
+
+def _ref_key(job: tuple) -> tuple:
+    family, supply, _r, rb, _c, new_vcc = job
+    return (family, supply, "astable" if rb is not None else None, new_vcc)
+
+
+def _reference_job(ref: tuple) -> tuple[list[str], RowReview | None, str | None]:
+    """Whole-catalog ranking on the reference network: the shortlist of family ids, the
+    answer for lines without a capacitor, or the reason the ranking failed."""
     from advisor.substitute import alternates
 
+    family, supply, mode, new_vcc = ref
+    try:
+        res = alternates(_CATALOG, family, Circuit(part=family, vcc=supply, mode=mode), new_vcc=new_vcc, limit=0)
+    except RetimeError as exc:
+        return [], None, exc.message
+    return [c.new.family for c in res.candidates], _answer(res.to_json(), None, new_vcc, SHORTLIST), None
+
+
+def _values_job(task: tuple) -> RowReview:
+    from advisor.substitute import alternates
+
+    (family, supply, r, rb, c, new_vcc), limit, (ranked, no_values, failed) = task
+    if failed is not None:
+        return RowReview(-1, "reviewed", reason=failed)
+    if c is None:
+        return _answer_limited(no_values, limit)
     mode = "astable" if rb is not None else None
-    circuit = Circuit(part=fam.id, vcc=vcc, mode=mode, r=r if mode is None else None,
+    circuit = Circuit(part=family, vcc=supply, mode=mode, r=r if mode is None else None,
                       ra=r if mode == "astable" else None, rb=rb, c=c)
     try:
-        key = (fam.id, vcc, mode, new_vcc)
-        if key not in shortlists:
-            ref = alternates(catalog, fam.id, Circuit(part=fam.id, vcc=vcc, mode=mode), new_vcc=new_vcc, limit=0)
-            shortlists[key] = ref
-        ref = shortlists[key]
-        if c is None:
-            res = ref.to_json()
-        else:
-            pool = [cand.new.family for cand in ref.candidates[: max(SHORTLIST, limit)]]
-            res = alternates(catalog, fam.id, circuit, new_vcc=new_vcc, limit=limit, families=pool).to_json()
+        res = alternates(_CATALOG, family, circuit, new_vcc=new_vcc, limit=limit,
+                         families=ranked[: max(SHORTLIST, limit)])
     except RetimeError as exc:
         return RowReview(-1, "reviewed", reason=exc.message)
+    return _answer(res.to_json(), c, new_vcc, limit)
+
+
+def _answer_limited(base: RowReview, limit: int) -> RowReview:
+    alts = base.alternates[:limit]
+    return RowReview(-1, "reviewed", best_alternate=base.best_alternate, best_class=base.best_class,
+                     alternates=alts, findings=base.findings, reason=base.reason)
+
+
+def _answer(res: dict, c: float | None, new_vcc: float | None, limit: int) -> RowReview:
     cands = res.get("candidates", [])[:limit]
     alts = [{"family": a["family"], "class": a["class"]} for a in cands]
     findings = []

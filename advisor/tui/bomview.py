@@ -104,7 +104,9 @@ class BomScreen(Screen):
 
         try:
             table = read_table(path)
-            res = review_bom(table, self.app.catalog, part_column=column, new_vcc=new_vcc, progress=progress)
+            # One process: forking from the app's worker thread could deadlock the event loop.
+            res = review_bom(table, self.app.catalog, part_column=column, new_vcc=new_vcc, progress=progress,
+                             workers=1)
         except RetimeError as exc:
             self.app.call_from_thread(self._say, exc.render(), "danger")
             return
