@@ -122,6 +122,7 @@ def review_bom(
     progress: Callable[[int, int], None] | None = None,
     workers: int | None = None,
 ) -> BomResult:
+    # progress(done, total) counts the distinct jobs judged (the slow part), not rows.
     """Review every data row of ``table``; never drops a row.
 
     Three passes: read every row (status, family, values) and collect the distinct
@@ -138,8 +139,6 @@ def review_bom(
     jobs = list(dict.fromkeys(r.job for r in read if r.job is not None))
     answers = _judge(jobs, catalog, limit, progress, workers)
     reviews = [r.finish(answers) for r in read]
-    if progress is not None and reviews:
-        progress(len(reviews), len(reviews))
     return BomResult(table, cols, reviews, new_vcc)
 
 
@@ -226,7 +225,7 @@ def _judge(jobs: list[tuple], catalog, limit: int, progress, workers: int | None
         answers: dict = {}
         for n, (job, answer) in enumerate(zip(jobs, mapper(_values_job, tasks)), 1):
             answers[job] = answer
-            if progress is not None and n % 10 == 0:
+            if progress is not None and (n % 10 == 0 or n == len(jobs)):
                 progress(n, len(jobs))
         return answers
     finally:

@@ -38,7 +38,8 @@ def run(args: argparse.Namespace) -> int:
     vcc = parse_quantity(args.vcc, "voltage") if args.vcc else None
     catalog = catalog_for(args)
     table = read_table(args.file)
-    bar = Progress("reviewing")
+    # Long files get a bar (on a terminal only); it counts the distinct timer lines judged.
+    bar = Progress("judging distinct timer lines", min_total=1 if len(table.rows) > 500 else 10**9)
     try:
         res = review_bom(table, catalog, part_column=args.part_column, new_vcc=new_vcc, vcc=vcc,
                          limit=max(1, args.limit), progress=bar)
