@@ -81,7 +81,15 @@ def measured_value(
     (or the one given) and the width is the pair's output width; otherwise the
     output channel's high time (``width``/``high``), low time or period.
     """
-    capture = read_capture(path)
+    value, _res, _trig, _out = measure_for_calibration(read_capture(path), quantity, trigger_channel, output_channel)
+    return value
+
+
+def measure_for_calibration(
+    capture: Capture, quantity: Quantity, trigger_channel: int | None, output_channel: int | None,
+) -> tuple[float, MeasureResult, int | None, int]:
+    """(median ``quantity`` in s, the measurement, trigger channel or None, output channel),
+    with the channel defaults :func:`measured_value` documents."""
     if output_channel is None:
         output_channel = 2 if capture.n_channels >= 2 and trigger_channel != 2 else 1
     if trigger_channel is None and quantity == "width" and capture.n_channels >= 2 and output_channel != 1:
@@ -103,4 +111,4 @@ def measured_value(
     if stats.median is None:
         raise CaptureError(f"the capture has no complete {what}", location=capture.source,
                            hint="capture a longer stretch, or choose --output-channel / --measured-quantity")
-    return stats.median
+    return stats.median, res, trigger_channel, output_channel

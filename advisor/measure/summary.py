@@ -34,8 +34,7 @@ from pathlib import Path
 import numpy as np
 
 from advisor.circuit import Measurement
-from advisor.errors import CaptureError
-from advisor.measure.analyse import Quantity, measure_capture
+from advisor.measure.analyse import Quantity, measure_for_calibration
 from advisor.measure.edges import Edges
 from advisor.measure.reading import Capture, read_capture
 from advisor.measure.result import MeasureResult
@@ -54,39 +53,8 @@ def capture_measurement(
     as a :class:`Measurement` carrying the capture's summary."""
     quantity = quantity or ("period" if mode == "astable" else "width")
     capture = read_capture(path)
-    value, res, trig, out = _measure(capture, quantity, trigger_channel, output_channel)
+    value, res, trig, out = measure_for_calibration(capture, quantity, trigger_channel, output_channel)
     return Measurement(quantity, value, capture=summarise(res, capture, str(path), quantity, value, trig, out))
-
-
-def _measure(capture: Capture, quantity: str, trigger_channel: int | None,
-             output_channel: int | None) -> tuple[float, MeasureResult, int | None, int]:
-    """(median, the measurement, trigger channel or None, output channel).
-
-    The channel defaults and the choice of statistic are those of
-    ``advisor.measure.analyse.measured_value`` (kept equal by tests/test_capture_summary.py).
-    """
-    if output_channel is None:
-        output_channel = 2 if capture.n_channels >= 2 and trigger_channel != 2 else 1
-    if trigger_channel is None and quantity == "width" and capture.n_channels >= 2 and output_channel != 1:
-        trigger_channel = 1
-    if quantity != "width":
-        trigger_channel = None
-    if trigger_channel is not None:
-        res = measure_capture(capture, trigger_channel=trigger_channel, output_channel=output_channel)
-        stats = res.pair.width  # type: ignore[union-attr]
-        what = f"output width (channel {output_channel}, triggered by channel {trigger_channel})"
-    else:
-        res = measure_capture(capture)
-        ch = res.channel(output_channel)
-        if ch is None:
-            reason = next((s["reason"] for s in res.skipped if s["index"] == output_channel), "not timed")
-            raise CaptureError(reason, location=capture.source)
-        stats = {"width": ch.high, "high": ch.high, "low": ch.low, "period": ch.period}[quantity]
-        what = f"{quantity} of channel {output_channel}"
-    if stats.median is None:
-        raise CaptureError(f"the capture has no complete {what}", location=capture.source,
-                           hint="capture a longer stretch, or choose --output-channel / --measured-quantity")
-    return stats.median, res, trigger_channel, output_channel
 
 
 def _level_before(edges: Edges, t0: float) -> bool:
@@ -142,7 +110,7 @@ def summarise(res: MeasureResult, capture: Capture, file: str, quantity: str, va
               trigger_channel: int | None, output_channel: int) -> dict:
     """The compact summary described in the module docstring."""
     out_ch = res.channel(output_channel)
-    assert out_ch is not None  # _measure raised otherwise
+    assert out_ch is not None  # measure_for_calibration raised otherwise
     trig_ch = res.channel(trigger_channel) if trigger_channel is not None else None
     pair = res.pair if trig_ch is not None else None
     if trig_ch is not None:
