@@ -1,0 +1,39 @@
+"""Heavy libraries stay off the command line's start-up path (design rule: pandas and
+textual are imported only by the commands that need them)."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+PROBE = """
+import contextlib, io, json, sys
+from advisor.cli.main import main
+with contextlib.redirect_stdout(io.StringIO()):
+    code = main(sys.argv[1:])
+print(json.dumps({"code": code, "loaded": sorted(m for m in ("pandas", "textual", "schemdraw", "openpyxl")
+                                                  if m in sys.modules)}))
+"""
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["check", "NE555", "--r", "10k", "--c", "10n", "--vcc", "5"],
+        ["swap", "CD4538B", "74HC4538", "--r", "100k", "--c", "10n", "--vcc", "15", "--new-vcc", "5"],
+        ["find", "sn74hc221n"],
+        ["design", "74HC4538", "--width", "1ms", "--vcc", "5"],
+        ["demo"],
+    ],
+)
+def test_heavy_libraries_are_not_imported(argv):
+    done = subprocess.run([sys.executable, "-c", PROBE, *argv], capture_output=True, text=True, cwd=ROOT)
+    assert done.returncode == 0, done.stderr
+    out = json.loads(done.stdout.strip().splitlines()[-1])
+    assert out["code"] == 0
+    assert out["loaded"] == []
