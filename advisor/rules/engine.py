@@ -102,9 +102,13 @@ class RuleSet:
         for r in self.rules:
             if r.id == rule_id:
                 return r
+        import difflib
+
         from advisor.errors import InputError
 
-        raise InputError(f"no rule {rule_id!r}", got=rule_id)
+        close = difflib.get_close_matches(rule_id, self.ids(), n=3, cutoff=0.5)
+        hint = ("did you mean " + ", ".join(close) + "?") if close else "'retime rules' lists them"
+        raise InputError(f"no rule {rule_id!r}", got=rule_id, hint=hint)
 
     def to_json(self) -> dict:
         return {
