@@ -126,3 +126,20 @@ def test_every_family_file_here_has_sources(cat):
         fam = cat.get(fid)
         assert fam.sources, fid
         assert all(s.kind for s in fam.sources)
+
+
+def test_st_cmos_timers(cat):
+    ts = cat.get("TS555")
+    assert (ts.supply.recommended.min, ts.supply.recommended.max) == (2.0, 16.0)  # ST DocID4077 rev 4: +2 V to +16 V
+    assert ts.supply.absolute_max.value == 18.0  # ST TS555 January 1999: supply voltage +18 V absolute maximum
+    assert 1.1 in values(ts, "mono_k")  # ST TS555 (12-page sheet) monostable operation: t = 1.1 R x C
+    assert 1.44 in values(ts, "astable_k")  # ST DocID4077 rev 4 section 4.2: f = 1.44/((RA + 2RB) C)
+    assert (ts.interface.vil.value, ts.interface.vih.value) == (1.36, 1.96)  # ST TS555 at VCC = 5 V: trigger voltage 1.36-1.96 V
+    assert ts.behaviour.retrigger == "no"  # ST TS555: stays in its state until the set time has elapsed, even if triggered again
+    dual = cat.get("TS556")
+    assert (dual.supply.recommended.min, dual.supply.recommended.max, dual.supply.absolute_max.value) == (2.0, 16.0, 18.0)  # ST TS556 rev 2 (2008): 2-16 V, +18 V abs max
+    assert 1.1 in values(dual, "mono_k")  # ST TS556 October 1997: t = 1.1 R x C
+    by_pin = {p.pin: (p.function, p.channel) for p in dual.packages[0].pins}
+    assert by_pin[1] == ("DIS", 1) and by_pin[13] == ("DIS", 2)  # ST TS556 block diagram: discharge 1/13
+    assert by_pin[6] == ("TRIG", 1) and by_pin[8] == ("TRIG", 2)  # ST TS556 block diagram: trigger 6/8
+    assert by_pin[14] == ("VCC", None) and by_pin[7] == ("GND", None)  # ST TS556 pin connections: 14 +VS, 7 GND
