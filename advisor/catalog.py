@@ -14,7 +14,7 @@ from pathlib import Path
 import yaml
 from pydantic import BaseModel
 
-from advisor.errors import UnknownPartError, raise_first_problem
+from advisor.errors import UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.parts import RESERVED_SOURCES, Family, Sourced
 from advisor.resources import data_dirs
 
@@ -43,21 +43,6 @@ class Problem:
 
     def __str__(self) -> str:
         return f"{self.file}: {self.path}: {self.message}" if self.path else f"{self.file}: {self.message}"
-
-
-def _loc(loc: tuple) -> str:
-    out = ""
-    for part in loc:
-        if isinstance(part, int):
-            out += f"[{part}]"
-        else:
-            out += f".{part}" if out else str(part)
-    return out
-
-
-def _short(value: object) -> str:
-    text = repr(value)
-    return text if len(text) <= 60 else text[:57] + "..."
 
 
 def parse_family(data: object, file: str) -> tuple[Family | None, list[Problem]]:

@@ -72,3 +72,20 @@ def raise_first_problem(problems: list, command: str) -> None:
     if problems:
         more = f" (and {len(problems) - 1} more; run '{command}')" if len(problems) > 1 else ""
         raise DataError(str(problems[0]) + more)
+
+
+def key_path(loc: tuple) -> str:
+    """A validation location as a key path: ``timing.constants.k[0].value``."""
+    out = ""
+    for part in loc:
+        if isinstance(part, int):
+            out += f"[{part}]"
+        else:
+            out += f".{part}" if out else str(part)
+    return out
+
+
+def short_repr(value: object) -> str:
+    """The offending value quoted back, cut to 60 characters."""
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."

@@ -17,7 +17,7 @@ from pathlib import Path
 
 import yaml
 
-from advisor.errors import raise_first_problem
+from advisor.errors import key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.resources import data_dirs
 from advisor.rules.context import Var, vocabulary
 from advisor.rules.engine import CompiledRule, RuleSet
@@ -46,21 +46,6 @@ class RuleProblem:
         if self.key:
             where += f": {self.key}"
         return f"{where}: {self.message}"
-
-
-def _loc(loc: tuple) -> str:
-    out = ""
-    for part in loc:
-        if isinstance(part, int):
-            out += f"[{part}]"
-        else:
-            out += f".{part}" if out else str(part)
-    return out
-
-
-def _short(value: object) -> str:
-    text = repr(value)
-    return text if len(text) <= 60 else text[:57] + "..."
 
 
 _KIND_TYPES = {"number": (int, float), "bool": (bool,), "text": (str,)}
