@@ -66,11 +66,6 @@ TOLERANCE: dict[str, float] = {
 }
 
 
-def series_names() -> tuple[str, ...]:
-    """The series names, coarsest first."""
-    return tuple(TABLES)
-
-
 def _name(series: str) -> str:
     key = series.upper().strip()
     if not key.startswith("E"):

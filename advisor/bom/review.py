@@ -15,7 +15,7 @@ from typing import Callable
 from advisor.bom.table import Columns, Table, locate_columns
 from advisor.circuit import Circuit
 from advisor.errors import RetimeError
-from advisor.values import format_code, parse_quantity
+from advisor.values import parse_quantity
 
 #: Row statuses (in the order the summary lists them).
 STATUSES = ("reviewed", "check-match", "out-of-scope", "no-part-number", "unreadable")
@@ -305,13 +305,3 @@ def _answer(res: dict, c: float | None, new_vcc: float | None, limit: int) -> Ro
         -1, "reviewed", best_alternate=alts[0]["family"] if alts else "", best_class=alts[0]["class"] if alts else "",
         alternates=alts, findings=findings[:3], reason=reason,
     )
-
-
-def describe_values(r: float | None, c: float | None) -> str:
-    """Short value text for summaries: '10k / 10n'."""
-    parts = []
-    if r is not None:
-        parts.append(format_code(r))
-    if c is not None:
-        parts.append(format_code(c, "capacitance"))
-    return " / ".join(parts)

@@ -317,13 +317,6 @@ def _label(pin) -> str:
     return f"{pin.name} (pin {pin.pin})"
 
 
-def _trigger_for(fam: Family, function: str) -> TriggerInput | None:
-    for t in fam.behaviour.triggers:
-        if t.function == function:
-            return t
-    return None
-
-
 def _pick_trigger(fam: Family, edge: str, prefer_schmitt: bool | None) -> tuple[TriggerInput | None, bool]:
     """The input of ``fam`` that answers ``edge``: exact edge first, then level of the same sense.
 
@@ -434,7 +427,7 @@ def map_pins(
     def new_pins(function: str, channel: int | None) -> list:
         return [p for p in np_.pins if p.function == function and p.channel == channel and p.pin not in new_used]
 
-    def link(old_pin, new_pin, note=None, new_channel=None) -> None:
+    def link(old_pin, new_pin, note=None) -> None:
         new_used.add(new_pin.pin)
         links.append(PinLink(old_pin.function, kind_of(old_pin.function), old_pin.pin, old_pin.name,
                              new_pin.pin, new_pin.name, old_pin.channel, new_pin.channel, note))
