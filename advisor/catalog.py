@@ -15,7 +15,7 @@ import yaml
 from pydantic import BaseModel
 
 from advisor.errors import UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
-from advisor.parts import RESERVED_SOURCES, Family, Sourced
+from advisor.parts import RESERVED_SOURCES, Family, Lifecycle, Sourced
 from advisor.resources import data_dirs
 
 try:  # the C loader is ~10x faster; fall back when libyaml is absent
@@ -183,6 +183,8 @@ def count_memory(fam: Family) -> int:
 
     def visit(obj: object) -> None:
         nonlocal n
+        if isinstance(obj, Lifecycle):
+            return  # a status statement is no value of the part: shown by 'show', not counted here
         if isinstance(getattr(obj, "source", None), str) and isinstance(obj, BaseModel):
             n += obj.source == "memory"
         if hasattr(obj, "retrigger_source"):

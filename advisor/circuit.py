@@ -22,6 +22,12 @@ DEFAULT_R_TOL = 0.05
 DEFAULT_C_TOL = 0.10
 
 
+def _series_tol(series: str) -> float:
+    from advisor.eseries import tolerance
+
+    return tolerance(series)
+
+
 @dataclass(frozen=True)
 class Trigger:
     period: float | None = None  # s
@@ -78,6 +84,8 @@ class Circuit:
     measured: Measurement | None = None
     target: Target | None = None
     cont: float | None = None  # V, a 555's control pin driven to this voltage (None: open)
+    r_series: str | None = None  # E-series the user chose for resistors: its tolerance when --r-tol is absent
+    c_series: str | None = None  # E-series the user chose for capacitors: likewise for --c-tol
 
     def __post_init__(self) -> None:
         if self.pot_setting is not None and not 0.0 <= self.pot_setting <= 1.0:
@@ -97,11 +105,16 @@ class Circuit:
 
     @property
     def r_tolerance(self) -> float:
-        return DEFAULT_R_TOL if self.r_tol is None else self.r_tol
+        """--r-tol, else the chosen series' tolerance (E96: 1 %, IEC 60063), else 5 %."""
+        if self.r_tol is not None:
+            return self.r_tol
+        return _series_tol(self.r_series) if self.r_series else DEFAULT_R_TOL
 
     @property
     def c_tolerance(self) -> float:
-        return DEFAULT_C_TOL if self.c_tol is None else self.c_tol
+        if self.c_tol is not None:
+            return self.c_tol
+        return _series_tol(self.c_series) if self.c_series else DEFAULT_C_TOL
 
     @property
     def tolerances_defaulted(self) -> dict[str, bool]:

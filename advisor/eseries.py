@@ -77,6 +77,16 @@ def _name(series: str) -> str:
     return key
 
 
+def series_name(text: str, flag: str = "--series") -> str:
+    """The canonical name of a series typed by a user (``e96`` → ``E96``); an unknown
+    name is bad input (exit 2) naming the flag. One parser for every command's
+    ``--series`` and ``--c-series``."""
+    try:
+        return _name(str(text))
+    except InputError as exc:
+        raise InputError(f"{flag}: {exc.message}", got=text, expected="one of " + ", ".join(TABLES)) from None
+
+
 @lru_cache(maxsize=None)
 def mantissas(series: str) -> tuple[float, ...]:
     """The series' values in one decade, [1, 10), as floats (1.0, 2.2, 4.7 for E3)."""

@@ -27,6 +27,11 @@ Retrigger = Literal["yes", "no", "selectable"]
 Edge = Literal["rising", "falling", "level-low", "level-high"]
 Level = Literal["low", "high"]
 Law = Literal["timer-555", "krc", "ln-supply", "cd4047", "cd4541"]
+#: Product lifecycle, as makers state it: in production; not recommended for new
+#: designs; last-time-buy announced; no longer made. ``unknown`` when no statement is recorded.
+Status = Literal["active", "nrnd", "last-time-buy", "obsolete", "unknown"]
+#: Best first: the order the alternates ranking uses (advisor/substitute/rank.py).
+STATUS_ORDER = ("active", "nrnd", "last-time-buy", "unknown", "obsolete")
 
 #: Normalised pin functions. Pin maps compare these, never the makers' labels,
 #: because labels differ between makers for the same pin (NXP vs TI 74HC4538).
@@ -209,6 +214,49 @@ class Interface(_Frozen):
     note: str | None = None
 
 
+class MakerStatus(_Frozen):
+    """One maker's lifecycle statement for its version of the family."""
+
+    maker: str
+    status: Status
+    as_of: str  # when the statement was read: YYYY, YYYY-MM or YYYY-MM-DD
+    source: str
+    note: str | None = None
+
+    @field_validator("as_of")
+    @classmethod
+    def _date(cls, v: str) -> str:
+        return _check_date(v)
+
+
+def _check_date(v: str) -> str:
+    import re
+
+    if not re.fullmatch(r"(19|20)\d\d(-(0[1-9]|1[0-2])(-(0[1-9]|[12]\d|3[01]))?)?", str(v)):
+        raise ValueError("expected a date YYYY, YYYY-MM or YYYY-MM-DD")
+    return str(v)
+
+
+class Lifecycle(_Frozen):
+    """The family's lifecycle status, when and where it was stated, and per-maker
+    statements where makers differ (one maker may still make a part another dropped).
+
+    ``status`` is the family's status for a buyer: the best status any maker states
+    (a part one maker still makes can be bought), unless given otherwise.
+    """
+
+    status: Status
+    as_of: str
+    source: str  # an entry of the file's sources, or memory / common-practice
+    note: str | None = None
+    makers: list[MakerStatus] = Field(default_factory=list)
+
+    @field_validator("as_of")
+    @classmethod
+    def _date(cls, v: str) -> str:
+        return _check_date(v)
+
+
 class Pin(_Frozen):
     pin: int
     name: str  # the maker's label, kept for display
@@ -251,7 +299,8 @@ class Family(_Frozen):
     function: Function
     technology: Technology
     channels: int = 1
-    status: Literal["active", "obsolete", "nrnd", "unknown"] = "unknown"
+    status: Status = "unknown"  # filled from ``lifecycle`` when that block is given
+    lifecycle: Lifecycle | None = None
     part_numbers: list[str]  # recognised base forms; maker prefixes/suffixes are generic
     supply: Supply
     timing: Timing
@@ -263,6 +312,18 @@ class Family(_Frozen):
     see_also: list[str] = Field(default_factory=list)
     cautions: list[str] = Field(default_factory=list)
     note: str | None = None
+
+    @model_validator(mode="before")
+    @classmethod
+    def _status_from_lifecycle(cls, data):
+        """``status`` comes from the ``lifecycle`` block; both given must agree."""
+        if isinstance(data, dict) and isinstance(data.get("lifecycle"), dict):
+            life = data["lifecycle"].get("status")
+            if "status" in data and life is not None and data["status"] != life:
+                raise ValueError(f"status {data['status']!r} disagrees with lifecycle.status {life!r}; give it once, in lifecycle")
+            if life is not None:
+                data = {**data, "status": life}
+        return data
 
     def source(self, source_id: str) -> Source | None:
         for s in self.sources:

@@ -45,7 +45,8 @@ def test_74ls221_to_74hc221_keeps_width_within_5_percent(cat):
 
 
 def test_cd4538b_15v_to_74hc4538_5v_within_3_percent_with_standard_values(cat):
-    res = swap(cat, "CD4538BE", "74HC4538", mono(15, 100e3, 100e-9, edge="rising"), new_vcc=5)
+    # Asked for 3 % (--keep-within 3%): the one-resistor answer (150k, +5 %) is outside it.
+    res = swap(cat, "CD4538BE", "74HC4538", mono(15, 100e3, 100e-9, edge="rising"), new_vcc=5, keep_within=0.03)
     old_w = 100e3 * 100e-9  # CD4538BC: PW = R·C
     r, c = res.new.values["r"], res.new.values["c"]
     new_w = 0.7 * r * c  # Nexperia 74HC4538: tW = 0.7·R·C

@@ -15,11 +15,12 @@ def run(capsys, *argv):
 
 def test_swap_json(capsys):
     code, out, _ = run(capsys, "swap", "CD4538BE", "74HC4538", "--vcc", "15", "--r", "100k", "--c", "100n",
-                       "--trigger-edge", "rising", "--new-vcc", "5", "--json")
+                       "--trigger-edge", "rising", "--new-vcc", "5", "--keep-within", "3%", "--json")
     assert code == 0
     j = json.loads(out)
     assert j["class"] == "drop-in-new-values"
     assert j["new"]["vcc"] == 5 and j["old"]["vcc"] == 15
+    assert j["old"]["status"] == "active" and j["new"]["status"] == "active"  # catalog lifecycle blocks
     assert abs(j["timing"]["nominal"]["width"] / (100e3 * 100e-9) - 1) <= 0.03  # CD4538BC: PW = R·C
 
 

@@ -9,9 +9,12 @@ NAME = "alternates"
 HELP = "every catalog family that can do the old part's job at the (new) supply, ranked"
 DESCRIPTION = (
     "Run a swap for every catalog family that can make the old circuit's pulse (or clock) at the "
-    "supply, and rank them: class first (drop-in, drop-in-new-values, rewire, redesign), then the "
-    "timing error (errors inside the tolerance count as equal), the number of rework steps and the findings. Families that "
-    "cannot do the job at this supply are listed with the reason."
+    "supply, and rank them: obsolete parts never above a part still made (left out unless "
+    "--include-obsolete), then the class (drop-in, drop-in-new-values, rewire, redesign), the "
+    "lifecycle status, the behaviour kept (retriggering, clear, Schmitt inputs, power-up), the fewest "
+    "parts changed (keep R and C, then one part), the same mounting, then the timing error (errors "
+    "inside the tolerance count as equal); parts in --stock come first among equals. Each candidate "
+    "says why it stands where it does. Families that cannot do the job at this supply are listed with the reason."
 )
 
 
@@ -22,14 +25,16 @@ def register(p: argparse.ArgumentParser) -> None:
     add_circuit_options(p, targets=False)
     add_new_vcc_option(p)
     p.add_argument("--limit", type=int, default=10, metavar="N", help="show the best N candidates (0: all; default 10)")
-    p.add_argument("--series", default="E24", metavar="E24", help="E-series for new resistor values (default E24)")
-    from advisor.cli.options import add_report_option
+    from advisor.cli.options import add_ranking_options, add_report_option, add_series_options
 
+    add_series_options(p, capacitors=False)
+    add_ranking_options(p)
     add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, new_vcc_from_args
+    from advisor.cli.options import (circuit_from_args, keep_within_from_args, new_vcc_from_args,
+                                     series_from_args, stock_from_args, with_series)
     from advisor.cli.output import catalog_for, emit_json
     from advisor.errors import InputError
     from advisor.substitute.alternates import alternates
@@ -39,8 +44,11 @@ def run(args: argparse.Namespace) -> int:
         raise InputError("--limit: give 0 (all) or a positive number", got=args.limit)
     catalog = catalog_for(args)
     old = catalog.resolve(args.old)
-    result = alternates(catalog, old.id, circuit_from_args(args, old.id), new_vcc=new_vcc_from_args(args),
-                        limit=args.limit, series=args.series)
+    series, _ = series_from_args(args)
+    circuit = with_series(args, circuit_from_args(args, old.id))
+    result = alternates(catalog, old.id, circuit, new_vcc=new_vcc_from_args(args), limit=args.limit, series=series,
+                        include_obsolete=args.include_obsolete, stock=stock_from_args(args, catalog),
+                        keep_within=keep_within_from_args(args))
     from advisor.cli.options import write_report_if_asked
 
     write_report_if_asked(args, result, "alternates")

@@ -12,10 +12,11 @@ def register(parser) -> None:
 
 def _summary(cat, key: str) -> dict:
     from advisor.catalog import count_memory
+    from advisor.lifecycle import lifecycle_json
 
     fam = cat.families[key]
     return {"id": fam.id, "title": fam.title, "function": fam.function, "technology": fam.technology,
-            "channels": fam.channels, "status": fam.status, "retrigger": fam.behaviour.retrigger,
+            "channels": fam.channels, "status": fam.status, "lifecycle": lifecycle_json(fam), "retrigger": fam.behaviour.retrigger,
             "law": fam.timing.law, "supply_min": fam.supply.recommended.min,
             "supply_max": fam.supply.recommended.max, "part_numbers": fam.part_numbers,
             "packages": [p.name for p in fam.packages], "file": cat.files[key],
@@ -42,7 +43,7 @@ def run(args) -> int:
         width = max((len(r["id"]) for r in rows), default=2)
         for r in rows:
             flag = f"  ({r['memory_values']} from memory)" if r["memory_values"] else ""
-            print(f"{r['id']:<{width}}  {r['technology']:<9} {r['channels']}ch  retrigger {r['retrigger']:<10} "
+            print(f"{r['id']:<{width}}  {r['technology']:<9} {r['channels']}ch  {r['status']:<13} retrigger {r['retrigger']:<10} "
                   f"{r['supply_min']:g}-{r['supply_max']:g} V  {r['title']}{flag}")
         print(f"{len(rows)} families")
         return 0

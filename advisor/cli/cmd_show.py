@@ -68,9 +68,10 @@ def _fmt(v, unit: str) -> str:
 
 def sheet_text(cat, fam) -> list[str]:
     from advisor.catalog import count_memory
+    from advisor.lifecycle import status_text
 
     out = [f"{fam.id} - {fam.title}",
-           f"  {fam.function}, {fam.technology}, {fam.channels} channel(s), status {fam.status}",
+           f"  {fam.function}, {fam.technology}, {fam.channels} channel(s), status {status_text(fam)}",
            f"  also read as: {', '.join(fam.part_numbers)}"]
     r = fam.supply.recommended
     out += ["", "Supply", f"  recommended {r.min:g}..{r.max:g} V  <{r.source}>", f"  absolute max {_fmt(fam.supply.absolute_max, 'V')}"]

@@ -23,7 +23,10 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("new", metavar="NEW", help="the part to fit instead, e.g. 74HC221")
     add_circuit_options(p, targets=False)
     add_new_vcc_option(p)
-    p.add_argument("--series", default="E24", metavar="E24", help="E-series for new resistor values (default E24)")
+    from advisor.cli.options import add_keep_within_option, add_series_options
+
+    add_series_options(p, capacitors=False)
+    add_keep_within_option(p)
     p.add_argument("--old-package", metavar="PKG", help="the old part's package, e.g. DIP-14 (default: its first)")
     p.add_argument("--new-package", metavar="PKG", help="the new part's package (default: the one closest to the old)")
     from advisor.cli.options import add_report_option
@@ -32,15 +35,17 @@ def register(p: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, new_vcc_from_args
+    from advisor.cli.options import circuit_from_args, keep_within_from_args, new_vcc_from_args, series_from_args, with_series
     from advisor.cli.output import catalog_for, emit_json
     from advisor.substitute.swap import swap
     from advisor.substitute.text import render_swap
 
     catalog = catalog_for(args)
     old = catalog.resolve(args.old)
-    result = swap(catalog, old.id, args.new, circuit_from_args(args, old.id), new_vcc=new_vcc_from_args(args),
-                  series=args.series, old_package=args.old_package, new_package=args.new_package)
+    series, _ = series_from_args(args)
+    result = swap(catalog, old.id, args.new, with_series(args, circuit_from_args(args, old.id)),
+                  new_vcc=new_vcc_from_args(args), series=series, old_package=args.old_package,
+                  new_package=args.new_package, keep_within=keep_within_from_args(args))
     from advisor.cli.options import write_report_if_asked
 
     write_report_if_asked(args, result, "swap")

@@ -132,6 +132,67 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
     )
 
 
+# --- standard-value series (--series, --c-series) ----------------------------------
+
+
+def add_series_options(p: argparse.ArgumentParser, *, capacitors: bool = True) -> None:
+    """Register ``--series`` (resistors) and ``--c-series`` (capacitors); checked by
+    :func:`advisor.eseries.series_name` (a bad name is bad input, exit 2)."""
+    p.add_argument("--series", default=None, metavar="E24",
+                   help="E-series for new resistor values (E3…E192; default E24); without --r-tol the bands "
+                        "use its tolerance (E96: 1%%)")
+    if capacitors:
+        p.add_argument("--c-series", default=None, metavar="E6",
+                       help="E-series for new capacitor values (default E6); without --c-tol the bands use its tolerance")
+
+
+def series_from_args(args: argparse.Namespace) -> tuple[str, str]:
+    """(resistor series, capacitor series), validated; E24 and E6 when not given."""
+    from advisor.eseries import series_name
+
+    r = series_name(args.series, "--series") if getattr(args, "series", None) else "E24"
+    c = series_name(args.c_series, "--c-series") if getattr(args, "c_series", None) else "E6"
+    return r, c
+
+
+def with_series(args: argparse.Namespace, circuit: Circuit) -> Circuit:
+    """The circuit with the series the user named (their tolerances stand in for --r-tol/--c-tol)."""
+    r, c = series_from_args(args)
+    return circuit.with_(r_series=r if getattr(args, "series", None) else None,
+                         c_series=c if getattr(args, "c_series", None) else None)
+
+
+# --- alternates options (ranking inputs shared by alternates and bom) -----------------
+
+
+def add_ranking_options(p: argparse.ArgumentParser) -> None:
+    """``--include-obsolete``, ``--stock FILE`` and ``--keep-within`` (alternates, bom)."""
+    p.add_argument("--include-obsolete", action="store_true",
+                   help="also list obsolete families (after every family still made, marked)")
+    p.add_argument("--stock", metavar="FILE",
+                   help="CSV or XLSX list of part numbers on the shelf or the approved list: those rank first among equals")
+    add_keep_within_option(p)
+
+
+def add_keep_within_option(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--keep-within", metavar="FRACTION",
+                   help="keep C and change one resistor when that lands within this fraction of the kept time "
+                        "(default: within the old circuit's worst-case band), e.g. 3%%")
+
+
+def keep_within_from_args(args: argparse.Namespace) -> float | None:
+    return _get(args, "--keep-within", "fraction")
+
+
+def stock_from_args(args: argparse.Namespace, catalog):
+    path = getattr(args, "stock", None)
+    if not path:
+        return None
+    from advisor.substitute.stock import read_stock
+
+    return read_stock(path, catalog)
+
+
 # --- reports (--report FILE on check, swap, alternates and bom) ---------------------
 
 

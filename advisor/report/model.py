@@ -643,6 +643,7 @@ def _swap(result: dict, catalog: Any) -> Report:
     rep.pin_map, rep.pin_tables, rep.pin_notes = pin_tables(result.get("pin_map"))
     rep.rework = rework_steps(result.get("rework"))
     rep.notes[:0] = [str(r) for r in result.get("reasons") or []]
+    rep.notes.append(f"Lifecycle: {ofam} {old.get('status') or 'unknown'}, {nfam} {new.get('status') or 'unknown'}.")
     kept = result.get("kept")
     if isinstance(kept, dict) and kept.get("quantity") in _UNITS:
         q = kept["quantity"]
@@ -698,6 +699,8 @@ def _alternates(result: dict, catalog: Any) -> Report:
             rep.pin_map = Table(("old pin", "new pin"), tuple((str(k), str(v)) for k, v in best["pairs"].items()))
         rep.rework = rework_steps(best.get("rework"))
         rep.notes.append(f"Pictures, findings and bench steps below are for the first candidate, {fam}.")
+    rep.notes += [f"{i}. {c.get('family')} ({c.get('status') or 'unknown'}): {c['rank_reason']}"
+                  for i, c in enumerate(cands, 1) if c.get("rank_reason")]
     rep.lead = f"{len(cands)} candidate{'s' if len(cands) != 1 else ''} for {ofam}" + (
         f"; best: {cands[0].get('family')} ({cands[0].get('class')})." if cands else ".")
     fams = [ofam] + [str(c.get("family")) for c in cands[:1]]

@@ -48,7 +48,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("id", "text", "", "family id, e.g. 74HC221"),
     _v("function", "text", "", "timer-555, monostable, monostable-astable, programmable-timer"),
     _v("technology", "text", "", "bipolar, cmos-555, ttl, ls, als, hc, hct, ac, ahc, ahct, vhc, lv, lvc, cmos-4000"),
-    _v("status", "text", "", "active, obsolete, nrnd, unknown"),
+    _v("status", "text", "", "active, nrnd, last-time-buy, obsolete, unknown (catalog lifecycle block)"),
     _v("channels", "number", "", "timers or one-shots per package"),
     _v("is_555", "bool", "", "function is timer-555"),
     _v("cmos", "bool", "", "a CMOS technology (cmos-555, 4000 series, HC/HCT/AC/AHC/VHC/LV/LVC...)"),

@@ -4,18 +4,17 @@ A family can do the job when its function has the circuit's mode (a one-shot
 cannot replace an astable; a 555-class timer or a 4047 can replace either) and
 the supply lies in its recommended range. Each such family gets a full
 :func:`advisor.substitute.swap.swap`; the ``unsuitable`` ones and the families that
-fail are listed under ``rejected`` with the reason. Ranking, best first: class
-(:data:`CLASS_ORDER`), then the size of the timing error, then the number of rework
-steps, then the findings (dangers, then warnings, then notes), then active
-parts before obsolete ones. Timing errors inside the circuit's tolerance (5 %
-by default) count as equal: E24 rounding, not the part, makes them.
+fail are listed under ``rejected`` with the reason. The ranking and each
+candidate's one-line reason are :mod:`advisor.substitute.rank`'s. Obsolete
+families are left out (named in ``left_out``) unless ``include_obsolete`` is set or
+no family still made can do the job; when listed they come after every other one.
 """
 
 from __future__ import annotations
 
 from advisor.circuit import Circuit
 from advisor.errors import RetimeError
-from advisor.substitute.classify import CLASS_ORDER
+from advisor.substitute.rank import rank_facts
 from advisor.substitute.reference import with_reference
 from advisor.substitute.result import AlternatesResult, Rejected
 from advisor.substitute.swap import _analyse, _side, kept_quantity, swap
@@ -28,19 +27,10 @@ CAN_DO = {
 
 
 def rank_key(result, tolerance: float = 0.05) -> tuple:
-    """Sort key: class, timing error (errors inside the tolerance count as equal: E24
-    rounding, not the part, makes them), rework steps, findings, then active parts
-    before obsolete ones."""
-    counts = result.severity_counts()
-    err = abs(result.error) if result.error is not None else 1.0
-    return (
-        CLASS_ORDER.index(result.cls),
-        int(err / tolerance) if tolerance > 0 else err,
-        len(result.rework),
-        counts["danger"], counts["warning"], counts["note"],
-        {"active": 0, "nrnd": 1, "unknown": 2, "obsolete": 3}.get(result.new.status, 2),
-        result.new.family,
-    )
+    """Sort key of a ranked candidate (:meth:`advisor.substitute.rank.RankFacts.key`)."""
+    if result.rank is None:
+        raise ValueError(f"{result.new.family}: no ranking facts (rank it through alternates())")
+    return result.rank.key()
 
 
 def alternates(
@@ -52,11 +42,16 @@ def alternates(
     limit: int = 10,
     series: str = "E24",
     families: list[str] | None = None,
+    include_obsolete: bool = False,
+    stock=None,
+    keep_within: float | None = None,
 ) -> AlternatesResult:
     """Ranked candidates for replacing ``old_query`` in ``circuit`` (see the module docstring).
 
     ``families`` restricts the search to those family ids (a shortlist), as the BOM
-    review does after ranking the whole catalog once per part and supply.
+    review does after ranking the whole catalog once per part and supply. ``stock`` is
+    a :class:`advisor.substitute.stock.Stock` (parts on the shelf or the approved list):
+    those rank first among equals and are marked.
     """
     old = catalog.resolve(old_query)
     circuit, reference_note = with_reference(circuit)
@@ -77,16 +72,25 @@ def alternates(
             rejected.append(Rejected(fam.id, f"runs from {rec.min:g} to {rec.max:g} V, not at {vcc:g} V"))
             continue
         try:
-            r = swap(catalog, old.id, fam.id, circuit, new_vcc=vcc, series=series, old_result=old_t)
+            r = swap(catalog, old.id, fam.id, circuit, new_vcc=vcc, series=series, old_result=old_t,
+                     keep_within=keep_within)
         except RetimeError as exc:
             rejected.append(Rejected(fam.id, exc.message))
             continue
         if r.cls == "unsuitable":
             rejected.append(Rejected(fam.id, "; ".join(r.verdict.reasons)))
             continue
+        r.rank = rank_facts(r, old, fam, tolerance=circuit.r_tolerance, edge=circuit.trigger.edge,
+                            in_stock=stock.entry_for(fam.id) if stock is not None else None)
         results.append(r)
-    results.sort(key=lambda r: rank_key(r, circuit.r_tolerance))
+    results.sort(key=rank_key)
     assumptions = [reference_note] if reference_note else []
+    left_out: list[str] = []
+    if not include_obsolete and any(r.rank.status != "obsolete" for r in results):
+        left_out = [r.new.family for r in results if r.rank.status == "obsolete"]
+        results = [r for r in results if r.rank.status != "obsolete"]
+    elif not include_obsolete and results:
+        assumptions.append("only obsolete families can do this job: listed, marked")
     if new_vcc is None:
         assumptions.append(f"candidates at the old supply, {vcc:g} V (give --new-vcc to move it)")
     return AlternatesResult(
@@ -96,4 +100,6 @@ def alternates(
         candidates=results[:limit] if limit else results,
         rejected=rejected,
         assumptions=assumptions,
+        left_out=left_out,
+        stock=stock.to_json() if stock is not None else None,
     )

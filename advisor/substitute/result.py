@@ -61,6 +61,7 @@ class SwapResult:
     design: dict | None = None  # how the values were found (series, kept_c, alternatives)
     assumptions: list[str] = field(default_factory=list)
     capture: dict | None = None  # summary of the old board's scope capture, when the measurement came from one
+    rank: object | None = None  # advisor.substitute.rank.RankFacts, set when ranked among alternates
 
     @property
     def cls(self) -> str:
@@ -114,6 +115,11 @@ class SwapResult:
             "rework": [s.detail for s in self.rework],
             "findings": [f.to_json() for f in sort_findings(self.findings)],
             "severity_counts": self.severity_counts(),
+            "status": self.new.status,
+            "rank_reason": self.rank.reason() if self.rank is not None else None,
+            "rank": self.rank.to_json() if self.rank is not None else None,
+            "in_stock": self.rank.in_stock if self.rank is not None else None,
+            "other_option": (self.design or {}).get("other_option"),
         }
 
 
@@ -134,6 +140,8 @@ class AlternatesResult:
     candidates: list[SwapResult]
     rejected: list[Rejected] = field(default_factory=list)
     assumptions: list[str] = field(default_factory=list)
+    left_out: list[str] = field(default_factory=list)  # obsolete families not listed (--include-obsolete lists them)
+    stock: dict | None = None  # the stock list used: {"file", "entries", "families"}
 
     def to_json(self) -> dict:
         return {
@@ -143,4 +151,6 @@ class AlternatesResult:
             "candidates": [c.summary() for c in self.candidates],
             "rejected": [r.to_json() for r in self.rejected],
             "assumptions": list(self.assumptions),
+            "left_out_obsolete": list(self.left_out),
+            "stock": self.stock,
         }

@@ -118,11 +118,13 @@ def swap(
     old_package: str | None = None,
     new_package: str | None = None,
     old_result=None,
+    keep_within: float | None = None,
 ) -> SwapResult:
     """Replace ``old_query`` by ``new_query`` in ``circuit`` (see the module docstring).
 
     ``old_result`` lets :func:`advisor.substitute.alternates` reuse one analysis of
-    the old circuit for every candidate.
+    the old circuit for every candidate. ``keep_within`` (fraction) replaces the old
+    circuit's worst-case band as the window a one-resistor change must land in.
     """
     old = catalog.resolve(old_query)
     new = catalog.resolve(new_query)
@@ -181,7 +183,13 @@ def swap(
             timing_solved = False
             timing_reason = f"{new.id}: {exc.message}"
         if d is not None and d.candidates:
-            pick, how = _pick_candidate(d.candidates, kept)
+            window = _keep_window(kept, old_t.timing, keep_within)
+            pick, how = _pick_candidate(d.candidates, kept, old_values=dict(old_t.values), window=window)
+            design_info["keep_window"] = {"min": window[0], "max": window[1],
+                                          "basis": "--keep-within" if keep_within is not None else "old band"}
+            other = _other_option(d.candidates, pick)
+            if other is not None:
+                design_info["other_option"] = {"values": other.values, "error": other.error, "kept_c": other.kept_c}
             vals = pick.values
             chosen = (base.with_(r=vals.get("r"), ra=vals.get("ra"), rb=vals.get("rb"), c=vals.get("c"),
                                  pot=vals.get("pot"), pot_setting=vals.get("pot_setting")), how)
@@ -252,11 +260,42 @@ def swap(
     )
 
 
-def _pick_candidate(cands, kept: dict):
-    """Keep C when a standard R gets within DESIGN_GOAL; else the closest network overall."""
+def _keep_window(kept: dict, old_timing: dict, keep_within: float | None) -> tuple[float, float]:
+    """The relative error window (lo ≤ 0 ≤ hi) a fewest-changes answer must land in:
+    ``±keep_within``, else the old circuit's own worst-case band on the kept quantity."""
+    if keep_within is not None:
+        return -abs(keep_within), abs(keep_within)
+    q = kept["quantity"]
+    nom = old_timing["nominal"].get(q)
+    lo, hi = old_timing["min"].get(q), old_timing["max"].get(q)
+    if not nom or lo is None or hi is None:
+        return -DESIGN_GOAL, DESIGN_GOAL
+    return min(lo / nom - 1.0, 0.0), max(hi / nom - 1.0, 0.0)
+
+
+def _parts_changed(old_values: dict, values: dict) -> int:
+    return len(changed_values(old_values, values))
+
+
+def _other_option(cands, pick):
+    """The closest network that is not the picked one (shown beside the answer)."""
+    rest = [c for c in cands if c is not pick and c.values != pick.values]
+    return min(rest, key=lambda c: abs(c.error) + 0.5 * abs(c.duty_error or 0.0)) if rest else None
+
+
+def _pick_candidate(cands, kept: dict, *, old_values: dict | None = None, window: tuple[float, float] | None = None):
+    """Fewest changes first: the existing C with one new standard resistor when that
+    lands inside ``window`` (the old circuit's worst-case band, or --keep-within);
+    else keep C when a standard R gets within DESIGN_GOAL; else the closest network."""
     def score(c):
         return abs(c.error) + 0.5 * abs(c.duty_error or 0.0)
 
+    if old_values is not None and window is not None:
+        one = [c for c in cands if c.kept_c and _parts_changed(old_values, c.values) <= 1
+               and window[0] - 1e-12 <= c.error <= window[1] + 1e-12
+               and abs(c.duty_error or 0.0) <= max(abs(window[0]), window[1])]
+        if one:
+            return min(one, key=score), "kept-c"
     kept_c = [c for c in cands if c.kept_c]
     if kept_c:
         best = min(kept_c, key=score)

@@ -38,8 +38,17 @@ def timing_text(timing: dict, mode: str) -> str:
 
 
 def _side_line(label: str, side: dict) -> str:
+    status = f"  [{side['status']}]" if side.get("status") else ""
     return (f"  {label:<4} {side['family']:<10} @ {format_eng(side['vcc'], 'V', 3):<6} {network(side['values']):<24} "
-            f"{timing_text(side['timing'], side['mode'])}")
+            f"{timing_text(side['timing'], side['mode'])}{status}")
+
+
+def _other_option(j: dict) -> str | None:
+    other = (j.get("design") or {}).get("other_option")
+    if not other:
+        return None
+    err = f" ({other['error']:+.1%})" if other.get("error") is not None else ""
+    return f"  or   {network(other['values'])}{err}" + ("" if other.get("kept_c") else ", another capacitor")
 
 
 def _kept(j: dict) -> str:
@@ -65,6 +74,9 @@ def render_swap(j: dict, *, title: str | None = None, findings: bool = True) -> 
     lines.append(_side_line("old", j["old"]))
     err = f"   ({j['error']:+.1%})" if j.get("error") is not None else ""
     lines.append(_side_line("new", j["new"]) + err)
+    other = _other_option(j)
+    if other:
+        lines.append(other)
     for r in j["reasons"]:
         lines.append(f"  why  {r}")
     pm = j["pin_map"]
@@ -116,15 +128,28 @@ def render_alternates(j: dict) -> str:
              f"{j['kept']['quantity']} {_t(j['kept']['value'])}"]
     if not j["candidates"]:
         lines.append("  no catalog family can do this job")
-    head = f"  {'#':>2}  {'family':<11} {'class':<19} {'error':>7}  {'values':<24} {'steps':>5}  findings"
+    head = (f"  {'#':>2}  {'family':<11} {'status':<13} {'class':<19} {'error':>7}  {'values':<24} "
+            f"{'steps':>5}  findings")
     lines.append(head)
     for i, c in enumerate(j["candidates"], 1):
         sc = c["severity_counts"]
         fnd = ", ".join(f"{n} {k}" for k, n in sc.items() if n) or "none"
         err = f"{c['error']:+.1%}" if c.get("error") is not None else "—"
-        lines.append(f"  {i:>2}  {c['family']:<11} {c['class']:<19} {err:>7}  {network(c['values']):<24} "
+        status = (c.get("status") or "—") + (" *" if c.get("in_stock") else "")
+        lines.append(f"  {i:>2}  {c['family']:<11} {status:<13} {c['class']:<19} {err:>7}  {network(c['values']):<24} "
                      f"{c['rework_steps']:>5}  {fnd}")
-        lines.append(f"      {c['reasons'][0] if c['reasons'] else ''}")
+        if c.get("rank_reason"):
+            lines.append(f"      place: {c['rank_reason']}")
+        if c.get("reasons"):
+            lines.append(f"      why:   {c['reasons'][0]}")
+        other = c.get("other_option")
+        if other:
+            lines.append(f"      or:    {network(other['values'])}" + (
+                f" ({other['error']:+.1%})" if other.get("error") is not None else ""))
+    if any(c.get("in_stock") for c in j["candidates"]):
+        lines.append("  * in the stock list")
+    if j.get("left_out_obsolete"):
+        lines.append(f"  left out (obsolete; --include-obsolete lists them): {', '.join(j['left_out_obsolete'])}")
     if j.get("rejected"):
         lines.append("  not suitable:")
         for r in j["rejected"]:

@@ -10,6 +10,7 @@ from rich.console import Group
 from rich.table import Table
 from rich.text import Text
 
+from advisor.lifecycle import status_text
 from advisor.tui.palette import STYLE as S
 from advisor.values import format_eng
 
@@ -60,7 +61,7 @@ def render_sheet(fam) -> Group:
     head.append(fam.id, style=S["id"])
     head.append(f"  {fam.title}")
     out.append(head)
-    out.append(Text(f"{fam.function} · {fam.technology} · {fam.channels} channel(s) · status {fam.status}", style=S["dim"]))
+    out.append(Text(f"{fam.function} · {fam.technology} · {fam.channels} channel(s) · status {status_text(fam)}", style=S["dim"]))
 
     out.append(_section("Supply"))
     t = _value_table()
