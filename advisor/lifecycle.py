@@ -37,7 +37,7 @@ def status_text(fam: Family) -> str:
     """One line: ``obsolete (from memory, 2026-12); TI active, onsemi obsolete``."""
     life = fam.lifecycle
     if life is None:
-        return f"{fam.status} (no lifecycle statement recorded)"
+        return fam.status  # a local family file without a lifecycle block
     text = f"{life.status} ({_said(life.source, life.as_of)})"
     if life.makers:
         text += "; " + ", ".join(f"{m.maker} {m.status}" for m in life.makers)
