@@ -1,4 +1,4 @@
-"""Check one circuit: the timing engine's result with the datasheet rules' findings merged.
+"""Check one circuit: the timing engine's facts judged by the datasheet rules.
 
 One function behind ``retime check``, the workbench's check view and any other
 front end, so they all report the same findings in the same order.
@@ -7,16 +7,15 @@ front end, so they all report the same findings in the same order.
 from __future__ import annotations
 
 from advisor.circuit import Circuit
-from advisor.findings import merge_findings
 from advisor.parts import Family
 
 
 def check_circuit(family: Family, circuit: Circuit, *, new_vcc: float | None = None,
                   samples: int | None = None):
-    """Analyse ``circuit`` on ``family`` (at ``new_vcc`` when the supply moves) and add
-    the rule findings; engine findings whose rule twin fired are dropped.
+    """Analyse ``circuit`` on ``family`` (at ``new_vcc`` when the supply moves) and judge
+    it by the rules (the only checks; the engine computes facts).
 
-    Returns the :class:`advisor.timing.result.TimingResult`, its findings merged.
+    Returns the :class:`advisor.timing.result.TimingResult` with the rule findings.
     """
     from advisor.rules import check_findings
     from advisor.timing import analyse
@@ -31,6 +30,5 @@ def check_circuit(family: Family, circuit: Circuit, *, new_vcc: float | None = N
     result = analyse(family, circuit, samples=samples)
     if moved:
         result.assumptions.append(moved)
-    rules = check_findings(family, circuit, result.to_json())
-    result.findings[:] = merge_findings(result.findings, rules)
+    result.findings[:] = check_findings(family, circuit, result)
     return result

@@ -1,7 +1,12 @@
-"""Findings: what the engine says about a circuit, for reporters to render.
+"""Findings: what the datasheet rules say about a circuit, for reporters to render.
 
-A finding is one datasheet rule (or a law's validity check) that fired, with a
-severity, a message, a fix and the source the rule stands on.
+A finding is one datasheet rule (``rules/*.yaml``) that fired, with a severity, a
+message, a fix and the source the rule stands on. The rules are the only checks:
+the timing engine computes facts and never judges them (DEVELOPERS.md, "One
+judgement path"). A finding also carries what its rule declares for a swap: the
+class a firing forces (``swap_class``), whether the old values can be kept
+(``blocks``) and the bench step that mends it (``rework``), so the swap classifier
+and the rework planner read findings and re-test nothing.
 """
 
 from __future__ import annotations
@@ -21,9 +26,23 @@ class Finding:
     fix: str
     source: str
     part: str | None = None  # family id the finding is about (old or new part in a swap)
+    role: str | None = None  # "new", "old" (part rules) or "swap" (swap rules); None when not from a rule
+    swap_class: str | None = None  # the class a swap is at least when this fires (rule's swap_class)
+    blocks: tuple[str, ...] = ()  # what the firing rules out, e.g. "kept-values"
+    rework: str | None = None  # the rule's bench step, rendered
+    rework_action: str | None = None  # its action word (advisor.substitute.rework.ACTIONS)
+    rework_fixes: bool = False  # after that step the hazard is gone (the plan may power up)
 
     def to_json(self) -> dict:
-        return asdict(self)
+        d = asdict(self)
+        d["blocks"] = list(self.blocks)
+        return d
+
+
+def severity_at_least(findings, level: str) -> bool:
+    """True when some finding is as severe as ``level`` (danger > warning > note) or worse."""
+    limit = SEVERITY_ORDER[level]
+    return any(SEVERITY_ORDER[f.severity] <= limit for f in findings)
 
 
 def sort_findings(findings: list[Finding]) -> list[Finding]:
@@ -36,36 +55,3 @@ def sort_findings(findings: list[Finding]) -> list[Finding]:
             seen.add(key)
             unique.append(f)
     return sorted(unique, key=lambda f: SEVERITY_ORDER[f.severity])
-
-
-#: The timing engine checks a law's range itself (so a result is never silent), and
-#: the datasheet rules (rules/*.yaml) check the same limits with their sources and
-#: fixes as data. When a rule twin fired for the same part, the engine's finding is
-#: dropped so the user reads each fact once.
-ENGINE_TWINS: dict[str, frozenset[str]] = {
-    "law-r-below-min": frozenset({"rext-below-min", "pot-end-below-min"}),
-    "law-r-above-max": frozenset({"rext-above-max"}),
-    "law-c-below-min": frozenset({"cext-below-min"}),
-    "law-c-above-max": frozenset({"cext-above-max"}),
-    "law-c-below-linear": frozenset({"cext-below-linear-range"}),
-    "law-f-above-range": frozenset({"555-formula-above-100khz", "above-formula-frequency"}),
-    "law-width-out-of-range": frozenset({"width-below-specified", "width-above-specified"}),
-    "trigger-divides": frozenset({"pulse-outlasts-trigger-skips"}),
-    "trigger-stays-high": frozenset({"pulse-outlasts-trigger-sticks"}),
-}
-
-
-def merge_findings(engine: list[Finding], rules: list[Finding]) -> list[Finding]:
-    """Engine and rule findings together, engine twins of fired rules dropped, sorted."""
-    fired = {(f.rule, f.part) for f in rules}
-    fired_any = {f.rule for f in rules}
-    kept = []
-    for f in engine:
-        twins = ENGINE_TWINS.get(f.rule, frozenset())
-        if f.part is None:
-            if twins & fired_any:
-                continue
-        elif any((t, f.part) in fired or (t, None) in fired for t in twins):
-            continue
-        kept.append(f)
-    return sort_findings(kept + list(rules))

@@ -14,11 +14,13 @@ from __future__ import annotations
 
 import pytest
 
-from advisor.findings import Finding
+from advisor.circuit import Circuit, Trigger
 from advisor.parts import Family
-from advisor.substitute.classify import CLASS_ORDER, SwapFacts, classify
+from advisor.rules import swap_findings
+from advisor.substitute.classify import CLASS_ORDER, classify
 from advisor.substitute.pinmap import map_pins
 from advisor.substitute.rework import plan_rework
+from advisor.substitute.swap import swap_facts
 
 SRC = [{"id": "s", "title": "inline test family", "kind": "datasheet"}]
 
@@ -150,7 +152,7 @@ def test_555_to_one_shot_blocks_on_the_timing_network():
     assert {"THRES", "DIS", "CONT"} <= blocking
     assert (2, 1) in _links(pm)  # TRIG → 1A: both answer a falling input
     assert (3, 13) in _links(pm)  # OUT → 1Q
-    v = classify(_facts(pm))
+    v = _judge(pm, NE555, HC221)
     assert v.cls == "redesign"
 
 
@@ -195,37 +197,38 @@ def test_rework_lifts_pins_on_a_moved_net_in_the_same_footprint():
     lift = next(s for s in steps if s.action == "lift")
     assert set(lift.pins) == {4, 13}
     assert {s.pins[0] for s in steps if s.action == "jumper"} == {4, 13}
-    assert classify(_facts(pm)).cls == "rewire"
+    assert _judge(pm, HC221, other).cls == "rewire"
 
 
-def _facts(pm, **kw):
-    base = dict(supply_ok=True, supply_reason=None, timing_solved=True, timing_within_tolerance=True,
-                timing_reason=None, values_changed=False, pin_map=pm)
-    base.update(kw)
-    return SwapFacts(**base)
-
-
-DANGER = Finding("supply-above-abs-max", "danger", "15 V is above 7 V", "use 5 V", "datasheet", part="74HC221")
+def _judge(pm, old, new, *, vcc=5.0, trigger_high=None, **kw):
+    """The class through the one judgement path: swap facts -> rules context -> findings -> classify."""
+    facts = dict(kept={"quantity": "width"}, timing_solved=True, timing_problem=None, error=0.0, duty_error=0.0,
+                 tolerance=0.05, how="kept", values_changed=False)
+    facts.update(kw)
+    circ = Circuit(new.id, vcc=vcc, r=10e3, c=10e-9, trigger=Trigger(high=trigger_high))
+    found = swap_findings(old, circ.with_(part=old.id), None, new, circ, None, swap_facts=swap_facts(pm, old, new, **facts))
+    return classify(found)
 
 
 @pytest.mark.parametrize("kw, expected", [
     ({}, "drop-in"),
     ({"values_changed": True}, "drop-in-new-values"),
-    ({"behaviour_reasons": ("the circuit relies on retriggering",)}, "redesign"),
-    ({"timing_within_tolerance": False}, "redesign"),
-    ({"supply_ok": False}, "unsuitable"),
-    ({"timing_solved": False}, "unsuitable"),
-    ({"dangers": (DANGER,)}, "unsuitable"),
-    ({"dangers": (DANGER,), "resolved_by_redesign": frozenset({"supply-above-abs-max"}),
-      "behaviour_reasons": ("level shift",)}, "redesign"),
+    ({"error": 0.08}, "redesign"),  # outside the 5 % tolerance: rules/pinout.yaml timing-outside-tolerance
+    ({"timing_solved": False, "timing_problem": "no network"}, "unsuitable"),
+    ({"vcc": 6.5}, "unsuitable"),  # outside the inline family's 2–6 V recommended range
+    ({"vcc": 9.0}, "unsuitable"),  # above its 7 V absolute maximum (a danger no step fixes)
+    ({"trigger_high": 15.0}, "redesign"),  # 15 V into a 5 V CMOS input: a protection step, then redesign
 ])
-def test_class_criteria_in_order(kw, expected):
+def test_class_from_fired_findings(kw, expected):
     pm = map_pins(LS221, HC221, edge="falling")
-    assert classify(_facts(pm, **kw)).cls == expected
+    v = _judge(pm, LS221, HC221, **kw)
+    assert v.cls == expected
+    if expected != "drop-in":
+        assert v.reasons and all(r and not r.startswith("danger:") for r in v.reasons)
 
 
 def test_rewire_when_package_changes():
     pm = map_pins(T121, HC221, edge="falling")
-    v = classify(_facts(pm, values_changed=True))
+    v = _judge(pm, T121, HC221, values_changed=True)
     assert v.cls == "rewire" and any("DIP-14" in r for r in v.reasons)
     assert CLASS_ORDER.index(v.cls) == 2

@@ -22,9 +22,12 @@ from advisor.rules.engine import CompiledRule, RuleSet, check_cases, evaluate
 from advisor.rules.loader import RuleProblem, load_dirs, load_rules, load_rules_checked, require_clean
 
 
-def check_findings(family: Family, circuit: Circuit, timing_json: dict | None) -> list[Finding]:
-    """Rule findings for one part in one circuit (the ``check`` command)."""
-    return evaluate(build_context(family, circuit, timing_json))
+def check_findings(family: Family, circuit: Circuit, timing) -> list[Finding]:
+    """Rule findings for one part in one circuit (``check``, each ``design`` candidate, a swap's kept values).
+
+    ``timing`` is the engine's result (a TimingResult or a design Candidate, or its JSON), or None.
+    """
+    return evaluate(build_context(family, circuit, timing))
 
 
 def swap_findings(
@@ -34,9 +37,16 @@ def swap_findings(
     new: Family,
     new_circuit: Circuit,
     new_timing_json: dict | None,
+    *,
+    swap_facts: dict | None = None,
 ) -> list[Finding]:
-    """Rule findings for replacing ``old`` by ``new`` (both parts' rules and the swap rules)."""
-    ctx = build_context(new, new_circuit, new_timing_json, old=old, old_circuit=old_circuit, old_timing=old_timing_json)
+    """Rule findings for replacing ``old`` by ``new`` (both parts' rules and the swap rules).
+
+    ``swap_facts`` are the swap engine's facts (pin moves, ties, design outcome;
+    :func:`advisor.substitute.swap.swap_facts`), read by the swap rules.
+    """
+    ctx = build_context(new, new_circuit, new_timing_json, old=old, old_circuit=old_circuit,
+                        old_timing=old_timing_json, swap_facts=swap_facts)
     return evaluate(ctx)
 
 

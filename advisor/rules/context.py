@@ -26,6 +26,8 @@ from typing import Literal
 
 from advisor.circuit import Circuit
 from advisor.parts import Family, Sourced
+from advisor.timing.constants import limit as _limit
+from advisor.timing.constants import pick as _pick_constant
 
 Kind = Literal["number", "bool", "text"]
 
@@ -71,7 +73,8 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("r_total_min", "number", "Ω", "timing resistance with the pot at 0 (mono: R; astable: RA+RB)"),
     _v("r_total_max", "number", "Ω", "timing resistance with the pot at full travel"),
     _v("r_setting", "number", "Ω", "timing resistance at the given pot setting"),
-    _v("r_discharge_min", "number", "Ω", "smallest resistance between the supply and the discharge/timing pin (555 astable: RA)"),
+    _v("r_discharge_min", "number", "Ω", "smallest resistance between the supply and the discharge/timing pin (555 astable: RA; mono: R with the pot at 0)"),
+    _v("pot_in_discharge_path", "bool", "", "turning the variable resistor to 0 takes the discharge/timing path down with it (mono; a 555 astable's pot sits in RB)"),
     # catalog limits at this supply and C
     _v("r_min", "number", "Ω", "smallest timing resistance the datasheet allows (strictest value that applies)"),
     _v("r_max", "number", "Ω", "largest timing resistance the datasheet allows"),
@@ -92,6 +95,9 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("k_max", "number", "", "largest published value of that constant"),
     _v("k_spread", "number", "", "k_max / k_min - 1 (makers' disagreement)"),
     _v("k_sources", "number", "", "how many published values apply"),
+    _v("k_from_memory", "text", "", "the law's constants that include a value recalled from memory (names), if any"),
+    _v("k_interpolated", "text", "", "the law's constants interpolated between published supplies (names), if any"),
+    _v("k_outside_c_range", "bool", "", "no constant is published for a capacitance this small or large"),
     # timing results (TimingResult.to_json())
     _v("width", "number", "s", "nominal output pulse width (one-shots, 555 monostable)"),
     _v("width_min", "number", "s", "worst-case shortest width"),
@@ -110,6 +116,11 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("pulse_duty", "number", "", "width / trigger_period (one-shots)"),
     _v("divide_by", "number", "", "1 when every trigger fires a pulse, n when only every n-th does"),
     _v("stays_high", "bool", "", "a retriggerable part whose pulse never ends at this trigger rate"),
+    _v("divide_by_min", "number", "", "smallest divide ratio over the tolerance band (non-retriggerable parts)"),
+    _v("divide_by_max", "number", "", "largest divide ratio over the tolerance band"),
+    _v("retriggerable", "bool", "", "the part was judged retriggerable at this trigger (yes, or selectable wired so)"),
+    _v("retrigger_min", "number", "s", "published minimum spacing between retriggers"),
+    _v("target_duty", "number", "", "wanted astable duty (high fraction), when a design target gives one"),
     # behaviour
     _v("retrigger", "text", "", "yes, no or selectable"),
     _v("accepts_edge", "bool", "", "the part has an input for trigger_edge"),
@@ -146,6 +157,28 @@ TOP_VOCABULARY: tuple[Var, ...] = (
     _v("c_kept", "bool", "", "the new circuit keeps the old timing capacitor"),
     _v("width_change", "number", "", "new.width / old.width - 1"),
     _v("frequency_change", "number", "", "new.frequency / old.frequency - 1"),
+    # swap facts from the swap engine (advisor.substitute.swap.swap_facts)
+    _v("same_footprint", "bool", "", "the chosen packages have the same footprint"),
+    _v("same_pins", "bool", "", "every used function sits at the same pin number, no tie or part added"),
+    _v("pins_moved", "number", "", "used nets whose pin number changes"),
+    _v("pins_moved_list", "text", "", "those moves, e.g. 'Q 6→10'"),
+    _v("pins_blocking", "number", "", "old inputs the circuit uses that have no counterpart on the new part"),
+    _v("pins_blocking_list", "text", "", "those inputs and what to do with their nets"),
+    _v("ties_added", "number", "", "inputs of the new part that need a tie the old board did not have"),
+    _v("ties_added_list", "text", "", "those ties"),
+    _v("edge_input_missing", "bool", "", "the new part has no input for the trigger's edge"),
+    _v("edge_note", "text", "", "the pin map's note on the trigger edge"),
+    _v("network_changed", "bool", "", "old and new parts use different timing networks (555 vs one-shot)"),
+    _v("old_network", "text", "", "timing network of the old part"),
+    _v("new_network", "text", "", "timing network of the new part"),
+    _v("values_changed", "bool", "", "the new circuit uses other timing values than the old board"),
+    _v("kept_quantity", "text", "", "what the swap keeps: width or period"),
+    _v("timing_solved", "bool", "", "some network inside the new part's limits makes the kept time"),
+    _v("timing_problem", "text", "", "why no network makes it (design's answer), when none does"),
+    _v("timing_error", "number", "", "new nominal / kept - 1 on the kept quantity"),
+    _v("duty_error", "number", "", "new duty - kept duty (astables)"),
+    _v("timing_tolerance", "number", "", "the circuit's resistor tolerance the error is judged against"),
+    _v("timing_how", "text", "", "kept (old values stay), kept-c (same capacitor, new R) or new-c"),
 )
 
 PART_FIELDS: dict[str, Var] = {v.name: v for v in PART_VOCABULARY}
@@ -170,11 +203,18 @@ _MAIN_CONSTANT = {"krc": "k", "ln-supply": "a", "cd4541": "k_osc"}
 
 
 def _pick(values: list[Sourced], vcc: float | None, c: float | None, strict: str) -> float | None:
-    """The strictest value that applies: the largest minimum or the smallest maximum."""
-    ok = [v.value for v in values if v.applies(vcc, c)]
-    if not ok:
-        return None
-    return max(ok) if strict == "max" else min(ok)
+    """The strictest value that applies (the engine's own choice, advisor.timing.constants.limit)."""
+    s = _limit(values, vcc, c, lowest=strict == "min")
+    return s.value if s is not None else None
+
+
+def _fact_limit(facts: dict, name: str, fallback: float | None) -> float | None:
+    """A limit as the engine chose it (TimingResult facts), else the same choice made here."""
+    lim = facts.get("limits") if isinstance(facts.get("limits"), dict) else None
+    if lim is None or name not in lim:
+        return fallback
+    entry = lim[name]
+    return _num(entry, "value") if isinstance(entry, dict) else None
 
 
 def _one(value: Sourced | None, vcc: float | None = None, c: float | None = None) -> float | None:
@@ -209,6 +249,8 @@ def _extreme(t: dict, key: str, fn) -> float | None:
 
 def part_values(family: Family, circuit: Circuit | None, timing: dict | None = None) -> dict[str, object]:
     """The :data:`PART_VOCABULARY` fields for one part in one circuit (plain values)."""
+    if timing is not None and not isinstance(timing, dict) and hasattr(timing, "to_json"):
+        timing = timing.to_json()  # a TimingResult or a design Candidate
     timing = timing if isinstance(timing, dict) else {}
     used = timing.get("values") if isinstance(timing.get("values"), dict) else {}
     circ = circuit
@@ -250,7 +292,25 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         cname = "astable_k" if mode == "astable" else "mono_k"
     elif tim.law == "cd4047":
         cname = "k_astable" if mode == "astable" else "k_mono"
-    ks = [v.value for v in family.constant(cname, vcc, c)] if cname else []
+    consts = timing.get("constants") if isinstance(timing.get("constants"), dict) else {}
+    used_k = consts.get(cname) if cname else None
+    if isinstance(used_k, dict):  # the constant the engine used (interpolated when it had to)
+        k_nom, k_lo, k_hi = _num(used_k, "nominal"), _num(used_k, "min"), _num(used_k, "max")
+        k_count = float(len(used_k.get("sources") or [])) or 1.0
+    else:
+        kc = _pick_constant(family, cname, vcc, c) if cname else None
+        k_nom, k_lo, k_hi = (kc.nominal, kc.min, kc.max) if kc is not None else (None, None, None)
+        k_count = float(len(kc.sources)) if kc is not None else 0.0
+    facts = timing.get("facts") if isinstance(timing.get("facts"), dict) else {}
+    kfacts = facts.get("constants") if isinstance(facts.get("constants"), dict) else {}
+    from_memory = [n for n, f in kfacts.items() if isinstance(f, dict) and f.get("unverified")]
+    interpolated = [n for n, f in kfacts.items()
+                    if isinstance(f, dict) and f.get("interpolated") and n != "r_discharge"]  # a few ohms
+    outside_c = any(isinstance(f, dict) and f.get("outside_c_range") for f in kfacts.values()) if kfacts else None
+    if "r_path_min" in facts:
+        r_dis = _num(facts, "r_path_min")
+    pot_in_path = facts.get("pot_in_discharge_path") if isinstance(facts.get("pot_in_discharge_path"), bool) else (
+        bool(pot) and not (mode == "astable" and is_555))
 
     t = timing.get("timing") if isinstance(timing.get("timing"), dict) else {}
     nominal = t.get("nominal") if isinstance(t.get("nominal"), dict) else {}
@@ -287,6 +347,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
     drive_src = itf.output_source_ma.value * 1e-3 if itf.output_source_ma is not None else None
     drive_snk = itf.output_sink_ma.value * 1e-3 if itf.output_sink_ma is not None else None
     divide_by = _num(trig, "divide_by")
+    d_range = trig.get("divide_by_range") if isinstance(trig.get("divide_by_range"), list) else None
     stays = trig.get("stays_high") if isinstance(trig.get("stays_high"), bool) else None
     calib = timing.get("calibration") if isinstance(timing.get("calibration"), dict) else None
 
@@ -316,24 +377,28 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "r_total_max": r_total_max,
         "r_setting": r_setting,
         "r_discharge_min": r_dis,
-        "r_min": _pick(comp.r_min, vcc, c, "max"),
-        "r_max": _pick(comp.r_max, vcc, c, "min"),
-        "c_min": _pick(comp.c_min, vcc, None, "max"),
-        "c_max": _pick(comp.c_max, vcc, None, "min"),
-        "c_linear_min": _one(tim.c_linear_min, vcc),
-        "f_max": _one(tim.f_max, vcc),
-        "limit_width_min": _one(tim.width_min, vcc),
-        "limit_width_max": _one(tim.width_max, vcc),
+        "pot_in_discharge_path": pot_in_path,
+        "r_min": _fact_limit(facts, "r_min", _pick(comp.r_min, vcc, c, "max")),
+        "r_max": _fact_limit(facts, "r_max", _pick(comp.r_max, vcc, c, "min")),
+        "c_min": _fact_limit(facts, "c_min", _pick(comp.c_min, vcc, c, "max")),
+        "c_max": _fact_limit(facts, "c_max", _pick(comp.c_max, vcc, c, "min")),
+        "c_linear_min": _fact_limit(facts, "c_linear_min", _one(tim.c_linear_min, vcc)),
+        "f_max": _fact_limit(facts, "f_max", _one(tim.f_max, vcc)),
+        "limit_width_min": _fact_limit(facts, "width_min", _one(tim.width_min, vcc)),
+        "limit_width_max": _fact_limit(facts, "width_max", _one(tim.width_max, vcc)),
         "r_internal": tim.r_internal.value if tim.r_internal is not None else None,
         "has_r_internal": tim.r_internal is not None,
         "uses_r_internal": tim.r_internal is not None and (used.get("r_internal") is True or (r is None and ra is None and not pot)),
         "electrolytic": comp.electrolytic,
         "has_electrolytic_note": comp.electrolytic is not None,
-        "k": ks[0] if ks else None,
-        "k_min": min(ks) if ks else None,
-        "k_max": max(ks) if ks else None,
-        "k_spread": (max(ks) / min(ks) - 1.0) if ks and min(ks) > 0 else None,
-        "k_sources": float(len(ks)),
+        "k": k_nom,
+        "k_min": k_lo,
+        "k_max": k_hi,
+        "k_spread": (k_hi / k_lo - 1.0) if k_lo and k_hi is not None and k_lo > 0 else None,
+        "k_sources": k_count,
+        "k_from_memory": ", ".join(from_memory) or None,
+        "k_interpolated": ", ".join(interpolated) or None,
+        "k_outside_c_range": outside_c,
         "width": width,
         "width_min": _extreme(t, "width", min),
         "width_max": _extreme(t, "width", max),
@@ -350,6 +415,11 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "pulse_duty": (width / trigger_period) if width is not None and trigger_period else None,
         "divide_by": divide_by,
         "stays_high": stays,
+        "divide_by_min": float(min(d_range)) if d_range else divide_by,
+        "divide_by_max": float(max(d_range)) if d_range else divide_by,
+        "retriggerable": trig.get("retriggerable") if isinstance(trig.get("retriggerable"), bool) else None,
+        "retrigger_min": beh.retrigger_min.value if beh.retrigger_min is not None else None,
+        "target_duty": circ.target.duty if circ is not None and circ.target is not None else None,
         "retrigger": beh.retrigger,
         "accepts_edge": accepts,
         "edge_input": edge_in.name if edge_in is not None else None,
@@ -395,6 +465,7 @@ def build_context(
     old: Family | None = None,
     old_circuit: Circuit | None = None,
     old_timing: dict | None = None,
+    swap_facts: dict | None = None,
 ) -> dict[str, object]:
     """The flat context for :func:`advisor.rules.evaluate` (see the module docstring).
 
@@ -424,4 +495,8 @@ def build_context(
             ctx["c_kept"] = abs(ctx["old.c"] / ctx["new.c"] - 1.0) < 1e-9  # type: ignore[operator]
         ctx["width_change"] = _ratio(ctx["new.width"], ctx["old.width"])
         ctx["frequency_change"] = _ratio(ctx["new.frequency"], ctx["old.frequency"])
+        for k, v in (swap_facts or {}).items():
+            if k not in TOP_FIELDS:
+                raise KeyError(f"swap fact {k!r} is not in the rule vocabulary (TOP_VOCABULARY)")
+            ctx[k] = v
     return ctx

@@ -26,6 +26,7 @@ class CompiledRule:
     condition: Expr
     message: Template
     fix: Template
+    rework: Template | None = None
 
     @property
     def id(self) -> str:
@@ -57,14 +58,21 @@ class CompiledRule:
         """True when the rule applies to this view and its condition is definitely true."""
         return self.applies(view) and self.condition.truth(view)
 
-    def finding(self, view: dict, part: str | None) -> Finding:
+    def finding(self, view: dict, part: str | None, role: str | None = None) -> Finding:
+        r = self.rule
         return Finding(
             rule=self.id,
-            severity=self.rule.severity,  # type: ignore[arg-type]
+            severity=r.severity,  # type: ignore[arg-type]
             message=self.message.render(view),
             fix=self.fix.render(view),
-            source=self.rule.source,
+            source=r.source,
             part=part,
+            role=role,
+            swap_class=r.swap_class,
+            blocks=tuple(r.blocks),
+            rework=self.rework.render(view) if self.rework is not None else None,
+            rework_action=r.rework.action if r.rework is not None else None,
+            rework_fixes=bool(r.rework.fixes) if r.rework is not None else False,
         )
 
     def to_json(self) -> dict:
@@ -85,6 +93,9 @@ class CompiledRule:
             "message": r.message,
             "fix": r.fix,
             "cases": {"fire": len(r.cases.fire), "no_fire": len(r.cases.no_fire)},
+            "swap_class": r.swap_class,
+            "blocks": list(r.blocks),
+            "rework": r.rework.model_dump() if r.rework is not None else None,
         }
 
 
@@ -150,9 +161,9 @@ def evaluate(context: dict, rules: RuleSet | None = None) -> list[Finding]:
             for role in scope.parts:
                 view = views.get(role)
                 if view is not None and rule.fires(view):
-                    findings.append(rule.finding(view, part=view.get("part.id")))  # type: ignore[arg-type]
+                    findings.append(rule.finding(view, part=view.get("part.id"), role=role))  # type: ignore[arg-type]
         elif context.get("swap") is True and rule.fires(context):
-            findings.append(rule.finding(context, part=context.get("new.id")))  # type: ignore[arg-type]
+            findings.append(rule.finding(context, part=context.get("new.id"), role="swap"))  # type: ignore[arg-type]
     return sort_findings(findings)
 
 

@@ -91,12 +91,17 @@ def compile_rule(data: object, file: str, topic: str, index: int) -> tuple[Compi
     known = vocab.__contains__
     problems: list[RuleProblem] = []
     compiled = {}
-    for key in ("condition", "message", "fix"):
+    for key in ("condition", "message", "fix", "rework.step"):
+        if key == "rework.step" and rule.rework is None:
+            continue
         try:
-            text = getattr(rule, key)
+            text = rule.rework.step if key == "rework.step" else getattr(rule, key)
             compiled[key] = compile_expr(text, known) if key == "condition" else compile_template(text, known)
         except ExprError as exc:
             problems.append(RuleProblem(file, rule.id, key, str(exc)))
+    if rule.swap_class is not None and rule.applies_to.scope == "part" and "new" not in rule.applies_to.parts:
+        problems.append(RuleProblem(file, rule.id, "swap_class",
+                                    "a swap class only counts for the new part; add 'new' to applies_to.parts"))
     if rule.applies_to.scope == "swap" and rule.applies_to.parts != ["new"]:
         problems.append(RuleProblem(file, rule.id, "applies_to.parts", "only part rules name parts; swap rules see old.* and new.*"))
     for kind in ("fire", "no_fire"):
@@ -105,7 +110,8 @@ def compile_rule(data: object, file: str, topic: str, index: int) -> tuple[Compi
                 problems.append(RuleProblem(file, rule.id, key, msg))
     if problems:
         return None, problems
-    return CompiledRule(rule, file, topic, compiled["condition"], compiled["message"], compiled["fix"]), []
+    return CompiledRule(rule, file, topic, compiled["condition"], compiled["message"], compiled["fix"],
+                        compiled.get("rework.step")), []
 
 
 def load_file(path: Path, label: str) -> tuple[list[CompiledRule], list[RuleProblem]]:

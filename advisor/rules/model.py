@@ -18,6 +18,14 @@ Severity = Literal["danger", "warning", "note"]
 Scope = Literal["part", "swap"]
 Role = Literal["new", "old"]
 Scalar = Union[StrictBool, StrictInt, StrictFloat, StrictStr, None]
+#: What a firing means for a swap, mildest first (advisor.substitute.classify.CLASS_ORDER).
+SwapClass = Literal["drop-in-new-values", "rewire", "redesign", "unsuitable"]
+#: What a firing rules out: ``kept-values`` = the network it fires on is not kept
+#: (a swap designs new values; design ranks such candidates last).
+Block = Literal["kept-values"]
+#: Bench action words of a rework step (advisor.substitute.rework.ACTIONS).
+ReworkAction = Literal["remove", "adapter", "lift", "jumper", "tie", "isolate", "add", "fit", "keep", "set",
+                       "fit-part", "protect"]
 
 RULE_ID = r"^[a-z0-9][a-z0-9-]{1,62}$"
 
@@ -55,6 +63,19 @@ class Cases(_Frozen):
     no_fire: list[dict[str, Scalar]] = Field(min_length=1)
 
 
+class Rework(_Frozen):
+    """A bench step the rule's firing adds to a swap's rework plan, before power-up.
+
+    ``step`` is a template like ``message``; ``fixes`` says whether the hazard is
+    gone once the step is done (a danger whose rule has no fixing step ends the
+    plan with "do not power up").
+    """
+
+    action: ReworkAction
+    step: str = Field(min_length=3)
+    fixes: bool = True
+
+
 class Rule(_Frozen):
     id: str = Field(pattern=RULE_ID)
     title: str = Field(min_length=3, max_length=120)
@@ -66,6 +87,9 @@ class Rule(_Frozen):
     source: str = Field(min_length=3)
     cases: Cases
     note: str | None = None
+    swap_class: SwapClass | None = None
+    blocks: list[Block] = Field(default_factory=list)
+    rework: Rework | None = None
 
 
 class RuleFile(_Frozen):

@@ -1,31 +1,14 @@
-"""The class of a swap, from explicit criteria checked in a fixed order.
+"""The class of a swap, read from the fired findings (it re-tests nothing).
 
-Classes, best first (:data:`CLASS_ORDER`):
+Classes, best first (:data:`CLASS_ORDER`): ``drop-in`` (no rule that rules out a
+drop-in fired), ``drop-in-new-values``, ``rewire``, ``redesign``, ``unsuitable``.
 
-``unsuitable``
-    the new part cannot run at the (new) supply (outside its recommended range),
-    or no timing network inside its limits makes the pulse, or a danger finding
-    about the new circuit remains that no circuit change named below resolves.
-``redesign``
-    the behaviour changes in a way the circuit must follow: retrigger semantics
-    the circuit relies on (its pulse outlasts the trigger period, so the old part
-    divided or stayed high and the new one would not do the same), an old input
-    with no equivalent on the new part (trigger edge, clear), a different timing
-    network (555 ↔ one-shot), trigger levels that need shifting at the new supply,
-    or a pulse that standard values cannot bring within the tolerance.
-``rewire``
-    a different package, or any used function at a different pin number, an added
-    component (an external R replacing an internal one) or a tie the old board
-    did not have.
-``drop-in-new-values``
-    same pinout at the same pin numbers for every used function, but the timing
-    network must change to keep the pulse.
-``drop-in``
-    same pinout and the old values keep the pulse within the tolerance.
-
-"Within the tolerance" is the circuit's resistor tolerance (5 % when not given,
-common practice for E24 parts): a difference smaller than the parts' own spread
-is not a reason to change them.
+Each datasheet rule declares what its firing means for a swap (``swap_class`` in
+``rules/*.yaml``, grammar in rules/README.md): for example ``pins-moved`` is
+``rewire``, ``trigger-above-supply`` is ``redesign``, ``supply-outside-recommended``
+is ``unsuitable``. The class is the worst that the fired rules about the new part
+and the swap declare (the old part's own findings do not count: it is being
+removed), and the reasons printed are those findings' own messages.
 """
 
 from __future__ import annotations
@@ -33,14 +16,16 @@ from __future__ import annotations
 from dataclasses import asdict, dataclass, field
 
 from advisor.findings import Finding
-from advisor.substitute.pinmap import PinMap
 
 CLASS_ORDER = ["drop-in", "drop-in-new-values", "rewire", "redesign", "unsuitable"]
+
+#: The reason a drop-in gives: nothing fired that rules one out.
+DROP_IN_REASON = "same pins; the old values keep the pulse within the tolerance (no rule that rules out a drop-in fired)"
 
 
 @dataclass(frozen=True)
 class Verdict:
-    """The class and every criterion that was checked, with the reasons that decided it."""
+    """The class, the messages of the findings that decided it, and what was counted."""
 
     cls: str
     reasons: tuple[str, ...]
@@ -57,74 +42,26 @@ class Verdict:
         return d
 
 
-@dataclass(frozen=True)
-class SwapFacts:
-    """What the swap engine found, as plain facts for :func:`classify`."""
-
-    supply_ok: bool
-    supply_reason: str | None
-    timing_solved: bool  # some network inside the new part's limits makes the pulse
-    timing_within_tolerance: bool  # the chosen standard values keep it within tolerance
-    timing_reason: str | None
-    values_changed: bool
-    pin_map: PinMap
-    behaviour_reasons: tuple[str, ...] = ()  # retrigger relied on, level shifting, network kind...
-    dangers: tuple[Finding, ...] = ()  # danger findings about the new circuit
-    resolved_by_redesign: frozenset[str] = frozenset()  # rule ids a named redesign step resolves
+def counts(f: Finding) -> bool:
+    """Findings that bear on the swap: the new part's and the swap rules' (not the removed part's)."""
+    return f.role != "old"
 
 
-def classify(f: SwapFacts) -> Verdict:
-    """Apply the criteria in the module docstring, worst class first."""
-    pm = f.pin_map
-    open_dangers = [d for d in f.dangers if d.rule not in f.resolved_by_redesign]
+def open_dangers(findings: list[Finding]) -> list[Finding]:
+    """Dangers about the new circuit that no rework step of their rule fixes."""
+    return [f for f in findings if f.severity == "danger" and counts(f) and not (f.rework and f.rework_fixes)]
+
+
+def classify(findings: list[Finding]) -> Verdict:
+    """The worst ``swap_class`` the fired findings declare (``drop-in`` when none does)."""
+    deciding = [f for f in findings if counts(f) and f.swap_class is not None]
+    cls = max((f.swap_class for f in deciding), key=CLASS_ORDER.index, default="drop-in")
     criteria = {
-        "supply_ok": f.supply_ok,
-        "timing_solved": f.timing_solved,
-        "timing_within_tolerance": f.timing_within_tolerance,
-        "danger_findings": len(open_dangers),
-        "behaviour_changes": list(f.behaviour_reasons),
-        "blocking_pins": [f"{u.old_name} (pin {u.old_pin})" for u in pm.blocking],
-        "same_footprint": pm.same_footprint,
-        "same_pins": pm.same_pins,
-        "values_changed": f.values_changed,
+        "fired": {f.rule: f.swap_class for f in deciding},
+        "danger_findings": sum(f.severity == "danger" for f in findings),
+        "open_dangers": len(open_dangers(findings)),
     }
-
-    reasons: list[str] = []
-    if not f.supply_ok:
-        reasons.append(f.supply_reason or "the new part cannot run at this supply")
-    if not f.timing_solved:
-        reasons.append(f.timing_reason or "no timing network inside the new part's limits makes the pulse")
-    for d in open_dangers:
-        reasons.append(f"danger: {d.message}")
-    if reasons:
-        return Verdict("unsuitable", tuple(reasons), criteria)
-
-    reasons = list(f.behaviour_reasons)
-    for u in pm.blocking:
-        reasons.append(f"{pm.old_family} {u.old_name} (pin {u.old_pin}): {u.what}")
-    if pm.polarity.edge is not None and pm.polarity.new_input is None:
-        reasons.append(pm.polarity.note or f"{pm.new_family} has no input for the {pm.polarity.edge} edge")
-    if not f.timing_within_tolerance:
-        reasons.append(f.timing_reason or "standard values do not keep the pulse within the tolerance")
-    if reasons:
-        return Verdict("redesign", tuple(dict.fromkeys(reasons)), criteria)
-
-    if not pm.same_pins:
-        why = []
-        if not pm.same_footprint:
-            why.append(f"package changes: {pm.old_package} → {pm.new_package}")
-        moved = pm.moved_links
-        if moved:
-            why.append("moved pins: " + ", ".join(f"{m.function} {m.old_pin}→{m.new_pin}" for m in moved[:6])
-                       + (" …" if len(moved) > 6 else ""))
-        for a in pm.additions:
-            why.append(f"add {a.what} ({a.role}) between {a.between[0]} and {a.between[1]}")
-        changed = pm.changed_ties
-        if changed:
-            why.append("new ties: " + ", ".join(f"{t.new_name} (pin {t.new_pin}) to {t.level}" for t in changed))
-        return Verdict("rewire", tuple(why) or ("pins differ",), criteria)
-
-    if f.values_changed:
-        return Verdict("drop-in-new-values",
-                       (f.timing_reason or "same pins; the timing network changes to keep the pulse",), criteria)
-    return Verdict("drop-in", ("same pins; the old values keep the pulse within the tolerance",), criteria)
+    if cls == "drop-in":
+        return Verdict(cls, (DROP_IN_REASON,), criteria)
+    reasons = tuple(dict.fromkeys(f.message for f in deciding if f.swap_class == cls))
+    return Verdict(cls, reasons, criteria)

@@ -1,12 +1,15 @@
-"""Ordered bench steps for a swap: remove, lift, adapt, jumper, tie, add, fit, check.
+"""Ordered bench steps for a swap: remove, lift, adapt, jumper, tie, add, fit, protect, set, check.
 
 The steps follow the order a technician works in: take the old part out; when the
 footprint is the same, bend out (lift) every new pin whose pad carries another
 net; when it differs, build an adapter (or wire the new part on a carrier); then
 run the jumpers for moved nets, tie the inputs that need a fixed level, add what
 the new part lacks (an external Rext for an internal one), fit the new timing
-values, and finally check the pulse on a two-channel scope (trigger on one
-channel, output on the other).
+values, then the step each fired rule with a rework template adds (a series
+resistor on an over-voltage trigger, a rewired timing capacitor), where to set a
+kept variable resistor, and finally check the pulse on a two-channel scope
+(trigger on one channel, output on the other). While a danger stands that no
+step fixes, the plan ends with "Do not power up: <reason>" instead.
 
 Pure data: each :class:`Step` has an ``action`` word, a one-line ``detail``, the pins
 it touches and, for value changes, the old and new value (SI units).
@@ -19,7 +22,8 @@ from dataclasses import asdict, dataclass
 from advisor.substitute.pinmap import PinMap
 from advisor.values import format_code, format_eng
 
-ACTIONS = ("remove", "adapter", "lift", "jumper", "tie", "isolate", "add", "fit", "keep", "fit-part", "check")
+ACTIONS = ("remove", "adapter", "lift", "jumper", "tie", "isolate", "add", "fit", "keep", "fit-part", "protect",
+           "set", "check", "stop")
 
 #: Value names in the order a technician meets them, with their kind and label.
 VALUE_LABELS = {
@@ -79,11 +83,17 @@ def plan_rework(
     expected: dict | None = None,
     mode: str = "mono",
     old_label: str | None = None,
+    findings=(),
+    adjust: dict | None = None,
 ) -> list[Step]:
     """The ordered bench steps for this pin map and these values.
 
     ``expected`` is the new part's nominal timing (``{"width": s}`` or
-    ``{"period", "high", ...}``) for the closing scope check.
+    ``{"period", "high", ...}``) for the closing scope check. ``findings`` are the
+    swap's fired findings: each rework template of the new part's and the swap's
+    rules adds its step, and a danger no step fixes ends the plan with "Do not
+    power up". ``adjust`` is the new timing at both ends of a kept variable
+    resistor's travel (``{"min": times, "max": times}``).
     """
     steps: list[Step] = []
 
@@ -161,8 +171,36 @@ def plan_rework(
         add("keep", "Keep " + ", ".join(f"{VALUE_LABELS[k][1]} {_fmt(VALUE_LABELS[k][0], new_values[k])}"
                                         for k in kept) + ".")
 
+    from advisor.substitute.classify import counts, open_dangers
+
+    for f in findings:
+        if f.rework and counts(f):
+            add(f.rework_action or "fit", f.rework)
+    pot = new_values.get("pot")
+    if pot:
+        add("set", _set_text(pot, new_values.get("pot_setting"), expected, adjust, mode))
+    stop = open_dangers(list(findings))
+    if stop:
+        add("stop", "Do not power up: " + " ".join(dict.fromkeys(f.message for f in stop)))
+        return steps
     add("check", _check_text(expected, mode))
     return steps
+
+
+def _set_text(pot: float, setting: float | None, expected: dict | None, adjust: dict | None, mode: str) -> str:
+    """Where to set a kept variable resistor (fraction of travel) and the range it gives."""
+    q = "width" if mode == "mono" else "period"
+    where = (f"{setting:.0%} of its travel ({_fmt('resistance', pot * setting)} in circuit)"
+             if setting is not None else "the setting that gives the time on the scope")
+    text = f"Set the variable resistor ({_fmt('resistance', pot)}) to {where}"
+    if expected and expected.get(q):
+        text += f" for about {format_eng(expected[q], 's', 3)}"
+    if adjust and isinstance(adjust.get("min"), dict) and isinstance(adjust.get("max"), dict):
+        lo, hi = adjust["min"].get(q), adjust["max"].get(q)
+        if lo is not None and hi is not None:
+            a, b = sorted((lo, hi))
+            text += f"; its travel covers {format_eng(a, 's', 3)} to {format_eng(b, 's', 3)}"
+    return text + "."
 
 
 def _check_text(expected: dict | None, mode: str) -> str:

@@ -11,17 +11,20 @@ Steps (each one a call into the engine that owns it):
 3. otherwise standard values from ``advisor.timing.design``, keeping the existing
    capacitor when a standard resistor gets within :data:`DESIGN_GOAL`, else the
    closest network with another capacitor;
-4. findings for both parts (``advisor.rules.swap_findings`` plus each part's
-   law-validity findings), the pin map, the class and the bench rework.
+4. the pin map, then the findings: the datasheet rules (the only checks) judge
+   both parts and the swap, with the swap's facts (pin moves, ties, network kind,
+   whether design found values, the error on the kept time) in their context;
+5. the class (:func:`advisor.substitute.classify.classify`) and the bench rework
+   (:func:`advisor.substitute.rework.plan_rework`), both read from those findings.
 """
 
 from __future__ import annotations
 
 from advisor.circuit import Circuit, Target
 from advisor.errors import InputError, RetimeError
-from advisor.findings import Finding, merge_findings
+from advisor.findings import Finding
 from advisor.parts import Family
-from advisor.substitute.classify import SwapFacts, classify
+from advisor.substitute.classify import classify
 from advisor.substitute.pinmap import map_pins, network_kind
 from advisor.substitute.reference import with_reference
 from advisor.substitute.result import PartSide, SwapResult
@@ -32,12 +35,8 @@ from advisor.substitute.rework import changed_values, plan_rework
 #: 5 % tolerance of E24 resistors, so the new part's own spread still dominates).
 DESIGN_GOAL = 0.02
 
-#: A finding of this severity about the new part's as-is values means the values must change.
-_VALUE_SEVERITIES = ("danger", "warning")
-
-#: Danger rules a level shifter (a named redesign step) resolves: the trigger's high
-#: level against the new part's supply or input threshold (rules/interface.yaml).
-_LEVEL_RULES = frozenset({"trigger-above-supply", "trigger-below-vih"})
+#: A rule that declares this block, fired on the old values on the new part, means they must change.
+_KEEP_BLOCK = "kept-values"
 
 
 def _analyse(family: Family, circuit: Circuit):
@@ -52,10 +51,17 @@ def _design(family: Family, circuit: Circuit, series: str, limit: int = 12):
     return design(family, circuit, series=series, keep_c=True, limit=limit, good_enough=DESIGN_GOAL)
 
 
-def _rule_findings(old, old_c, old_t, new, new_c, new_t) -> list[Finding]:
+def _rule_findings(old, old_c, old_t, new, new_c, new_t, facts: dict) -> list[Finding]:
     from advisor.rules import swap_findings
 
-    return swap_findings(old, old_c, old_t, new, new_c, new_t)
+    return swap_findings(old, old_c, old_t, new, new_c, new_t, swap_facts=facts)
+
+
+def _blocks_kept_values(family: Family, circuit: Circuit, result) -> bool:
+    """True when a rule that rules out keeping the values fires on them (rules/*.yaml ``blocks``)."""
+    from advisor.rules import check_findings
+
+    return any(_KEEP_BLOCK in f.blocks for f in check_findings(family, circuit, result))
 
 
 def kept_quantity(mode: str, timing: dict, calibrated: bool) -> dict:
@@ -83,24 +89,6 @@ def _side(fam: Family, t, vcc: float | None) -> PartSide:
                     fam.technology, fam.status, trig)
 
 
-def _tag(findings: list[Finding], part: str) -> list[Finding]:
-    from dataclasses import replace
-
-    return [f if f.part else replace(f, part=part) for f in findings]
-
-
-def _vih(fam: Family, vcc: float) -> float | None:
-    """The new part's input-high threshold at ``vcc`` (V): absolute when published for it, else a fraction."""
-    itf = fam.interface
-    if itf.vih is not None and itf.vih.applies(vcc):
-        return itf.vih.value
-    if itf.vih_fraction is not None:
-        return itf.vih_fraction.value * vcc
-    if itf.inputs == "ttl":
-        return 2.0  # TTL-compatible input: VIH 2.0 V (HCT, AHCT and LS datasheets)
-    return None
-
-
 def new_circuit_for(circuit: Circuit, new: Family, vcc: float | None, mode: str) -> Circuit:
     """The old circuit's network on the new part at the new supply (no measurement, no target)."""
     return circuit.with_(part=new.id, vcc=vcc, mode=mode if new.function != "monostable" else None,
@@ -126,6 +114,9 @@ def swap(
     the old circuit for every candidate. ``keep_within`` (fraction) replaces the old
     circuit's worst-case band as the window a one-resistor change must land in.
     """
+    from advisor import eseries
+
+    eseries.mantissas(series)  # a mistyped series is bad input (exit 2), never a verdict
     old = catalog.resolve(old_query)
     new = catalog.resolve(new_query)
     circuit, reference_note = with_reference(circuit)
@@ -151,11 +142,6 @@ def swap(
     uses_rint = mode == "mono" and circuit.r is None and old.timing.r_internal is not None
 
     base = new_circuit_for(circuit, new, vcc, mode)
-    rec = new.supply.recommended
-    supply_ok = rec.min - 1e-9 <= vcc <= rec.max + 1e-9
-    supply_reason = None if supply_ok else (
-        f"{new.id} runs from {rec.min:g} to {rec.max:g} V; the circuit needs {vcc:g} V")
-
     # --- values: keep them when they keep the pulse, else design -----------------
     chosen = None  # (circuit, how)
     design_info: dict = {"series": series, "goal": DESIGN_GOAL, "tolerance": tol}
@@ -167,9 +153,8 @@ def swap(
             asis = None
         if asis is not None:
             err = _error(kept, asis.timing)
-            bad = [f for f in asis.findings if f.severity in _VALUE_SEVERITIES]
             design_info["as_is_error"] = err
-            if abs(err) <= tol and abs(_duty_error(kept, asis.timing)) <= tol and not bad:
+            if abs(err) <= tol and abs(_duty_error(kept, asis.timing)) <= tol and not _blocks_kept_values(new, base, asis):
                 chosen = (base, "kept")
     timing_solved = True
     timing_reason = None
@@ -208,35 +193,24 @@ def swap(
     except RetimeError as exc:
         raise InputError(f"{new.id} cannot be analysed with this circuit: {exc.message}") from None
     err = _error(kept, new_t.timing)
-    within = abs(err) <= tol and abs(_duty_error(kept, new_t.timing)) <= tol
-    if timing_solved and not within:
-        timing_reason = (f"the closest standard values give {err:+.1%} on the {kept['quantity']}, "
-                         f"outside the {tol:.0%} tolerance")
-    if how != "kept" and timing_reason is None:
-        timing_reason = (f"new values keep the {kept['quantity']} within {err:+.1%}"
-                         + (" with the same capacitor" if how == "kept-c" else " with another capacitor"))
+    if not timing_solved:
+        design_info["problem"] = timing_reason
 
-    # --- findings, pins, class, rework -------------------------------------------
-    old_json, new_json = old_t.to_json(), new_t.to_json()
-    findings = merge_findings(_tag(old_t.findings, old.id) + _tag(new_t.findings, new.id),
-                              _rule_findings(old, old_c, old_json, new, final_c, new_json))
-
+    # --- pins, facts, findings, class, rework ----------------------------------
     edge = circuit.trigger.edge
     pm = map_pins(old, new, edge=edge, uses_internal_r=uses_rint,
                   old_package=old_package, new_package=new_package, assume_edge=mode == "mono")
-    behaviour, resolved = _behaviour_changes(old, new, old_t, new_t, circuit, vcc, findings, mode)
-
     old_values = dict(old_t.values)
     if uses_rint:
         old_values["r"] = None  # the internal resistor is not a part on the board
-    values_changed = bool(changed_values(old_values, new_t.values))
-    dangers = tuple(f for f in findings if f.severity == "danger" and f.part != old.id)
-    verdict = classify(SwapFacts(
-        supply_ok=supply_ok, supply_reason=supply_reason, timing_solved=timing_solved,
-        timing_within_tolerance=within, timing_reason=timing_reason, values_changed=values_changed,
-        pin_map=pm, behaviour_reasons=tuple(behaviour), dangers=dangers, resolved_by_redesign=frozenset(resolved),
-    ))
-    rework = plan_rework(pm, old_values, new_t.values, expected=new_t.timing["nominal"], mode=mode)
+    facts = swap_facts(pm, old, new, kept=kept, timing_solved=timing_solved, timing_problem=timing_reason,
+                       error=err, duty_error=_duty_error(kept, new_t.timing), tolerance=tol, how=how,
+                       values_changed=bool(changed_values(old_values, new_t.values)))
+    old_json, new_json = old_t.to_json(), new_t.to_json()
+    findings = _rule_findings(old, old_c, old_json, new, final_c, new_json, facts)
+    verdict = classify(findings)
+    rework = plan_rework(pm, old_values, new_t.values, expected=new_t.timing["nominal"], mode=mode,
+                         findings=findings, adjust=new_t.adjust)
     if pm.polarity.assumed:
         assumptions.append(pm.polarity.note.split("; ")[-1])
     if mode == "mono" and circuit.trigger.high is None and old_vcc is not None and abs(vcc - old_vcc) > 1e-9:
@@ -305,33 +279,40 @@ def _pick_candidate(cands, kept: dict, *, old_values: dict | None = None, window
     return best, ("kept-c" if best.kept_c else "new-c")
 
 
-def _behaviour_changes(old, new, old_t, new_t, circuit, vcc, findings, mode) -> tuple[list[str], set[str]]:
-    """Reasons the circuit must change (redesign), and the danger rules those changes resolve."""
-    reasons: list[str] = []
-    resolved: set[str] = set()
-    ot = old_t.trigger.to_json() if old_t.trigger is not None else None
-    nt = new_t.trigger.to_json() if new_t.trigger is not None else None
-    if ot is not None and mode == "mono":
-        relies = (ot.get("divide_by") or 1) > 1 or bool(ot.get("stays_high"))
-        if relies and (nt is None or nt.get("divide_by") != ot.get("divide_by")
-                       or bool(nt.get("stays_high")) != bool(ot.get("stays_high"))):
-            what = "stays high" if ot.get("stays_high") else f"fires on every {ot.get('divide_by')}th trigger"
-            reasons.append(
-                f"the circuit relies on {old.id}'s retrigger behaviour: its pulse outlasts the trigger period, "
-                f"so it {what}; {new.id} ({'retriggerable' if new.behaviour.retrigger == 'yes' else 'not retriggerable'}"
-                f") would behave differently")
-    high = circuit.trigger.high
-    if high is not None:
-        vih = _vih(new, vcc)
-        if high > vcc + 0.3:
-            reasons.append(f"the trigger's {high:g} V high exceeds the {vcc:g} V supply of {new.id}: "
-                           "a level shifter (or a divider into a Schmitt buffer) is needed")
-        elif vih is not None and high < vih:
-            reasons.append(f"the trigger's {high:g} V high is below {new.id}'s {vih:.2g} V input threshold: "
-                           "a level shifter or a TTL-compatible (HCT-type) part is needed")
-        if reasons:
-            resolved |= {f.rule for f in findings if f.rule in _LEVEL_RULES}
-    if network_kind(old) != network_kind(new):
-        reasons.append(f"{old.id} and {new.id} use different timing networks "
-                       f"({network_kind(old)} vs {network_kind(new)}): the network is rebuilt")
-    return reasons, resolved
+def swap_facts(pm, old: Family, new: Family, *, kept: dict, timing_solved: bool, timing_problem: str | None,
+               error: float | None, duty_error: float | None, tolerance: float, how: str,
+               values_changed: bool) -> dict:
+    """The swap's facts for the rules context (advisor/rules/context.py TOP_VOCABULARY).
+
+    Facts only: the pin map's moves, ties and unmatched inputs, the two timing
+    networks, and what the value search found. The rules in rules/pinout.yaml and
+    rules/behaviour.yaml judge them.
+    """
+    moved = pm.moved_links if pm.same_footprint else ()
+    ties = pm.changed_ties
+    blocking = pm.blocking
+    pol = pm.polarity
+    edge_missing = pol.edge is not None and pol.new_input is None
+    return {
+        "same_footprint": pm.same_footprint,
+        "same_pins": pm.same_pins,
+        "pins_moved": float(len(moved)),
+        "pins_moved_list": ", ".join(f"{m.function} {m.old_pin}→{m.new_pin}" for m in moved) or None,
+        "pins_blocking": float(len(blocking)),
+        "pins_blocking_list": "; ".join(f"{u.old_name} (pin {u.old_pin}): {u.what}" for u in blocking) or None,
+        "ties_added": float(len(ties)),
+        "ties_added_list": ", ".join(f"{t.new_name} (pin {t.new_pin}) to {t.level}" for t in ties) or None,
+        "edge_input_missing": edge_missing,
+        "edge_note": (pol.note or f"{new.id} has no input for the {pol.edge} edge") if edge_missing else None,
+        "network_changed": network_kind(old) != network_kind(new),
+        "old_network": network_kind(old),
+        "new_network": network_kind(new),
+        "values_changed": values_changed,
+        "kept_quantity": kept["quantity"],
+        "timing_solved": timing_solved,
+        "timing_problem": timing_problem,
+        "timing_error": error,
+        "duty_error": duty_error,
+        "timing_tolerance": tolerance,
+        "timing_how": how,
+    }

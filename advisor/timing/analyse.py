@@ -1,5 +1,6 @@
 """``analyse``: the timing of an existing circuit, with band, adjustment, target,
-calibration, trigger verdict and law-validity findings."""
+calibration, trigger facts and the facts the datasheet rules judge (no findings:
+the rules are the only checks, :func:`advisor.checking.check_circuit` runs them)."""
 
 from __future__ import annotations
 
@@ -11,7 +12,7 @@ from advisor.timing.calibrate import calibrate, scale
 from advisor.timing.model import Model, build
 from advisor.timing.result import TimingResult
 from advisor.timing.trigger import analyse_trigger
-from advisor.timing.validity import check_model
+from advisor.timing.validity import network_facts
 
 
 def network_values(model: Model) -> dict:
@@ -48,7 +49,6 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
     if circuit.measured is not None:
         cal = calibrate(model.mode, nominal, circuit.measured)
         factor = cal.factor
-    findings = check_model(model, nominal)
     timing = {"nominal": scale(nominal, factor), "min": scale(lows, factor), "max": scale(highs, factor)}
     adjust = None
     if model.pot:
@@ -60,10 +60,9 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
     trig = None
     if circuit.trigger.period is not None:
         w = timing["nominal"].get("width")
-        trig, tf = analyse_trigger(
+        trig = analyse_trigger(
             family, model.mode, circuit.trigger.period, w, timing["min"].get("width"), timing["max"].get("width"),
         )
-        findings.extend(tf)
     dist = None
     window = circuit.target.range if circuit.target is not None else None
     if samples or window is not None:
@@ -74,7 +73,7 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
         dist = simulate(model, samples or 100_000, window=window, quantity=q, scale=factor, seed=seed)
     return TimingResult(
         part=family.id, mode=model.mode, law=model.law, values=network_values(model), timing=timing,
-        adjust=adjust, target=target, calibration=cal, trigger=trig, findings=findings,
+        adjust=adjust, target=target, calibration=cal, trigger=trig, findings=[], facts=network_facts(model),
         constants=dict(model.constants), tolerances=tolerances(circuit), assumptions=list(model.assumptions),
         distribution=dist, capture=circuit.measured.capture if circuit.measured is not None else None,
     )

@@ -97,9 +97,13 @@ def pick(family: Family, name: str, vcc: float | None, c: float | None) -> Const
     return _make(name, [nearest], interpolated=True, outside_c_range=outside_c)
 
 
-def limit(values: list[Sourced], vcc: float | None, *, lowest: bool) -> Sourced | None:
-    """The most conservative applicable component limit (lowest max or highest min)."""
-    pool = [v for v in values if v.applies(vcc, None)]
+def limit(values: list[Sourced], vcc: float | None, c: float | None = None, *, lowest: bool) -> Sourced | None:
+    """The most conservative applicable limit (lowest max or highest min) at ``vcc`` and ``c``.
+
+    The one place a limit is chosen: the engine's facts, the rules context and the
+    design search all call it, so they never pick different limits.
+    """
+    pool = [v for v in values if v.applies(vcc, c)]
     if not pool:
         return None
     return min(pool, key=lambda v: v.value) if lowest else max(pool, key=lambda v: v.value)

@@ -30,7 +30,7 @@ from advisor.timing.band import band
 from advisor.timing.constants import limit
 from advisor.timing.model import build, default_vcc, resolve_mode
 from advisor.timing.result import Candidate, DesignResult
-from advisor.timing.validity import check_model
+from advisor.timing.validity import network_facts
 from advisor.values import format_eng
 
 #: Trimmer values (Ω), 1-2-5 sequence (common practice).
@@ -109,14 +109,8 @@ def design(
     base = circuit.with_(vcc=vcc, r=None, ra=None, rb=None, measured=None, trigger=circuit.trigger)
     variable = window is not None or circuit.pot is not None
 
-    findings: list[Finding] = []
+    findings: list[Finding] = []  # the rules judge each candidate (_candidate); none are made here
     astable555 = mode == "astable" and family.timing.law == "timer-555"
-    if astable555 and target.duty is not None and target.duty <= 0.5:
-        findings.append(Finding(
-            "design-duty-unreachable", "warning",
-            f"a 555 astable without a diode cannot run at {target.duty:.0%} duty (its high time includes RB's)",
-            "put a diode across RB, or invert the output", "Diodes NE555 DS35112 rev 4 (tH = ln2·(RA+RB)·C)", family.id,
-        ))
 
     cands: list[Candidate] = []
     kept = circuit.c if keep_c and circuit.c is not None else None
@@ -152,7 +146,9 @@ def design(
 
     def score(cd: Candidate) -> tuple:
         err = abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0)
-        return (not _covers(cd, window), err > step, not cd.kept_c, err)
+        # A candidate a rule rejects (blocks: kept-values, e.g. below the part's minimum R) ranks last.
+        rejected = any("kept-values" in f.blocks for f in cd.findings)
+        return (rejected, not _covers(cd, window), err > step, not cd.kept_c, err)
 
     cands.sort(key=score)
     seen, unique = set(), []
@@ -295,7 +291,12 @@ def _candidate(family: Family, circuit: Circuit, target: Target, kept_c: bool) -
         values["pot_setting"] = setting
     if target.range is not None and model.pot:
         error = 0.0 if setting is not None else error
-    return Candidate(
+    cand = Candidate(
         values=values, timing={"nominal": nominal, "min": lows, "max": highs}, error=error,
-        findings=check_model(model, nominal), kept_c=kept_c, adjust=adjust, setting=setting, duty_error=duty_error,
+        kept_c=kept_c, adjust=adjust, setting=setting, duty_error=duty_error, mode=model.mode,
+        facts=network_facts(model),
     )
+    from advisor.rules import check_findings  # the same rules as check and swap judge every candidate
+
+    cand.findings[:] = check_findings(family, circuit, cand)
+    return cand

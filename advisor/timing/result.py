@@ -31,6 +31,7 @@ class TimingResult:
     distribution: object | None = None  # Distribution (Monte Carlo), when asked
     extra: dict = field(default_factory=dict)
     capture: dict | None = None  # summary of the scope capture behind the measurement (advisor.measure.summary)
+    facts: dict = field(default_factory=dict)  # what the rules judge: paths, chosen limits (advisor.timing.validity)
 
     def to_json(self) -> dict:
         out = {
@@ -48,6 +49,7 @@ class TimingResult:
             "tolerances": dict(self.tolerances),
             "assumptions": list(self.assumptions),
             "capture": self.capture,
+            "facts": self.facts,
         }
         if self.distribution is not None:
             out["distribution"] = _json(self.distribution)
@@ -67,6 +69,8 @@ class Candidate:
     adjust: dict | None = None
     setting: float | None = None
     duty_error: float | None = None
+    mode: str = "mono"
+    facts: dict = field(default_factory=dict)  # what the rules judge (advisor.timing.validity)
 
     def to_json(self) -> dict:
         out = {
@@ -75,6 +79,8 @@ class Candidate:
             "error": self.error,
             "kept_c": self.kept_c,
             "findings": [f.to_json() for f in sort_findings(self.findings)],
+            "mode": self.mode,
+            "facts": self.facts,
         }
         if self.adjust is not None:
             out["adjust"] = self.adjust

@@ -20,9 +20,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from advisor.findings import Finding
 from advisor.parts import Family
-from advisor.timing.constants import source_label
 from advisor.values import format_eng
 
 
@@ -66,61 +64,31 @@ def divide_ratio(width: float, period: float, recovery: float = 0.0) -> int:
 def analyse_trigger(
     family: Family, mode: str, period: float, width: float | None,
     width_min: float | None = None, width_max: float | None = None,
-) -> tuple[TriggerResult, list[Finding]]:
-    """Verdict for a trigger of ``period`` (s) on a pulse of ``width`` (s, calibrated)."""
-    findings: list[Finding] = []
+) -> TriggerResult:
+    """Facts for a trigger of ``period`` (s) on a pulse of ``width`` (s, calibrated).
+
+    Facts only (``divide_by`` and its range over the tolerance band, ``stays_high``):
+    the rules in ``rules/behaviour.yaml`` judge them.
+    """
     if mode == "astable" or width is None:
         return TriggerResult(period, None, False, None, None, None, None,
-                             note="free-running astable: a trigger signal does not set its timing"), findings
+                             note="free-running astable: a trigger signal does not set its timing")
     beh = family.behaviour
     retrig = beh.retrigger in ("yes", "selectable")
     note = None
     if beh.retrigger == "selectable":
         note = "retriggering is selectable by wiring; judged as wired retriggerable"
     recovery = beh.recovery.value if beh.recovery is not None else 0.0
-    src = source_label(family, beh.retrigger_source)
     if retrig:
         if period < width:
-            res = TriggerResult(period, None, True, True, width, None, 1.0, note=note)
-            findings.append(Finding(
-                "trigger-stays-high", "warning",
-                f"triggers every {format_eng(period, 's')} restart the {format_eng(width, 's')} pulse before it ends: the output never falls",
-                "shorten the pulse below the trigger period (smaller R or C) or use a non-retriggerable part",
-                src, family.id,
-            ))
-        else:
-            res = TriggerResult(period, 1, False, True, width, period, width / period, note=note)
-            if width_max is not None and width_max >= period:
-                findings.append(Finding(
-                    "trigger-marginal", "warning",
-                    f"the pulse ({format_eng(width, 's')} nominal, up to {format_eng(width_max, 's')} worst case) can outlast the trigger period {format_eng(period, 's')}",
-                    "leave margin between the pulse width and the trigger period", src, family.id,
-                ))
-        rmin = beh.retrigger_min
-        if rmin is not None and period < rmin.value:
-            findings.append(Finding(
-                "trigger-below-retrigger-min", "warning",
-                f"trigger period {format_eng(period, 's')} is shorter than the published minimum retrigger spacing {format_eng(rmin.value, 's')}",
-                "space the triggers further apart", source_label(family, rmin.source), family.id,
-            ))
-        return res, findings
+            return TriggerResult(period, None, True, True, width, None, 1.0, note=note)
+        return TriggerResult(period, 1, False, True, width, period, width / period, note=note)
     n = divide_ratio(width, period, recovery)
     rng = None
     if width_min is not None and width_max is not None:
         lo, hi = divide_ratio(width_min, period, recovery), divide_ratio(width_max, period, recovery)
         if lo != hi:
             rng = (lo, hi)
-            findings.append(Finding(
-                "trigger-marginal", "warning",
-                f"within tolerance the part fires on every {ordinal(lo)} to every {ordinal(hi)} trigger",
-                "move the pulse width away from a multiple of the trigger period", src, family.id,
-            ))
-    if n > 1:
-        findings.append(Finding(
-            "trigger-divides", "warning",
-            f"the {format_eng(width, 's')} pulse outlasts the {format_eng(period, 's')} trigger period: only every {ordinal(n)} trigger fires a pulse",
-            "shorten the pulse below the trigger period, or keep the division if it is intended", src, family.id,
-        ))
     if recovery and n == 1 and width < period < width + recovery:
         note = f"the part needs {format_eng(recovery, 's')} after a pulse before the next trigger"
-    return TriggerResult(period, n, False, False, width, n * period, width / (n * period), rng, note), findings
+    return TriggerResult(period, n, False, False, width, n * period, width / (n * period), rng, note)
