@@ -49,7 +49,12 @@ def test_constant_interpolated_between_supplies():
                                     {"value": 0.45, "vcc_min": 5.0, "vcc_max": 5.0}]})
     res = analyse(fam, Circuit("T", vcc=3.5, r=10e3, c=100e-9))
     assert res.constants["k"].nominal == pytest.approx(0.50)
-    assert "law-constant-interpolated" in {f.rule for f in res.findings}
+    assert res.facts["constants"]["k"]["interpolated"] is True
+    # the rule judges the fact (rules/timing-network.yaml constant-interpolated)
+    from advisor.checking import check_circuit
+
+    checked = check_circuit(fam, Circuit("T", vcc=3.5, r=10e3, c=100e-9))
+    assert "constant-interpolated" in {f.rule for f in checked.findings}
 
 
 def test_monte_carlo_inside_band_and_window_share():
@@ -136,13 +141,20 @@ def test_findings_r_below_min_c_below_linear_r_above_max():
         components={"r_min": [{"value": 2000, "source": "test"}], "r_max": [{"value": 40e3, "source": "test"}]},
         timing_extra={"c_linear_min": {"value": 1e-9, "source": "test"}},
     )
+    from advisor.checking import check_circuit
+
     res = analyse(fam, Circuit("T", vcc=5, r=1e3, c=100e-12, pot=50e3))
-    rules = {f.rule: f.severity for f in res.findings}
-    assert rules["law-r-below-min"] == "danger"
-    assert rules["law-r-above-max"] == "warning"
-    assert rules["law-c-below-linear"] == "warning"
-    clean = analyse(fam, Circuit("T", vcc=5, r=10e3, c=10e-9))
-    assert not [f for f in clean.findings if f.rule.startswith("law-r") or f.rule.startswith("law-c")]
+    assert res.findings == []  # the engine computes facts; the rules judge them
+    f = res.facts
+    assert f["r_path_min"] == 1e3 and f["r_path_max"] == 51e3 and f["pot_in_discharge_path"] is True
+    assert f["limits"]["r_min"]["value"] == 2000 and f["limits"]["r_max"]["value"] == 40e3
+    rules = {x.rule: x.severity for x in check_circuit(fam, Circuit("T", vcc=5, r=1e3, c=100e-12, pot=50e3)).findings}
+    assert rules["pot-end-below-min"] == "danger"
+    assert rules["rext-above-max"] == "warning"
+    assert rules["cext-below-linear-range"] == "warning"
+    clean = check_circuit(fam, Circuit("T", vcc=5, r=10e3, c=10e-9))
+    assert not {x.rule for x in clean.findings} & {"rext-below-min", "pot-end-below-min", "rext-above-max",
+                                                     "cext-below-linear-range", "cext-below-min", "cext-above-max"}
 
 
 def test_missing_values_are_input_errors():

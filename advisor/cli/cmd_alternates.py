@@ -25,15 +25,16 @@ def register(p: argparse.ArgumentParser) -> None:
     add_circuit_options(p, targets=False)
     add_new_vcc_option(p)
     p.add_argument("--limit", type=int, default=10, metavar="N", help="show the best N candidates (0: all; default 10)")
-    from advisor.cli.options import add_ranking_options, add_report_option, add_series_options
+    from advisor.cli.options import add_fail_on_option, add_ranking_options, add_report_option, add_series_options
 
+    add_fail_on_option(p)
     add_series_options(p, capacitors=False)
     add_ranking_options(p)
     add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import (circuit_from_args, keep_within_from_args, new_vcc_from_args,
+    from advisor.cli.options import (circuit_from_args, fail_on_status, keep_within_from_args, new_vcc_from_args,
                                      series_from_args, stock_from_args, with_series)
     from advisor.cli.output import catalog_for, emit_json
     from advisor.errors import InputError
@@ -56,4 +57,4 @@ def run(args: argparse.Namespace) -> int:
         emit_json(result.to_json())
     else:
         sys.stdout.write(render_alternates(result.to_json()))
-    return 0
+    return fail_on_status(args, result)

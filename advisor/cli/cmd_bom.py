@@ -21,7 +21,9 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("--new-vcc", metavar="V", help="the supply the board moves to (V)")
     p.add_argument("--vcc", metavar="V", help="supply for lines without a supply column (default 5 V where the part runs there)")
     p.add_argument("--limit", type=int, default=3, help="alternates kept per line (default 3)")
-    from advisor.cli.options import add_report_option
+    from advisor.cli.options import add_fail_on_option, add_report_option
+
+    add_fail_on_option(p)
 
     add_report_option(p)
 
@@ -54,7 +56,9 @@ def run(args: argparse.Namespace) -> int:
         emit_json(res.to_json())
     else:
         _print_text(res, args.output)
-    return 0
+    from advisor.cli.options import fail_on_status
+
+    return fail_on_status(args, res)
 
 
 def _print_text(res, output: str | None) -> None:

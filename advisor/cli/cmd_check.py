@@ -17,18 +17,19 @@ DESCRIPTION = (
 
 
 def register(p: argparse.ArgumentParser) -> None:
-    from advisor.cli.options import add_circuit_options, add_new_vcc_option, add_report_option
+    from advisor.cli.options import add_circuit_options, add_fail_on_option, add_new_vcc_option, add_report_option
 
     p.add_argument("part", metavar="PART", help="family id or part number, e.g. NE555, SN74HC221N")
     add_circuit_options(p)
     add_new_vcc_option(p)
+    add_fail_on_option(p)
     p.add_argument("--range", metavar="TMIN..TMAX", help="acceptance window for the width (or period); adds a Monte Carlo share inside it")
     p.add_argument("--monte-carlo", metavar="N", type=int, help="run a Monte Carlo of N samples (numpy)")
     add_report_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, new_vcc_from_args, write_report_if_asked
+    from advisor.cli.options import circuit_from_args, fail_on_status, new_vcc_from_args, write_report_if_asked
     from advisor.cli.output import catalog_for, emit_json
     from advisor.errors import InputError
     from advisor.checking import check_circuit
@@ -45,7 +46,7 @@ def run(args: argparse.Namespace) -> int:
         emit_json(result.to_json())
     else:
         sys.stdout.write(render_text(result.to_json()))
-    return 0
+    return fail_on_status(args, result)
 
 
 # ----------------------------------------------------------------------------- text

@@ -16,7 +16,7 @@ DESCRIPTION = (
 
 
 def register(p: argparse.ArgumentParser) -> None:
-    from advisor.cli.options import add_circuit_options
+    from advisor.cli.options import add_circuit_options, add_fail_on_option
 
     p.add_argument("part", metavar="PART", help="family id or part number")
     t = p.add_argument_group("target (give one)")
@@ -27,12 +27,13 @@ def register(p: argparse.ArgumentParser) -> None:
     t.add_argument("--range", metavar="TMIN..TMAX", help="adjustment window: a fixed resistor plus a trimmer must cover it")
     add_circuit_options(p, targets=False)
     p.add_argument("--series", default="E24", help="resistor series (E12, E24, E48, E96, E192; default E24)")
+    add_fail_on_option(p)
     p.add_argument("--new-c", action="store_true", help="do not try to keep the existing capacitor")
     p.add_argument("--limit", type=int, default=5, help="candidates shown (default 5)")
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args
+    from advisor.cli.options import circuit_from_args, fail_on_status
     from advisor.cli.output import catalog_for, emit_json
     from advisor.timing import design
 
@@ -44,7 +45,7 @@ def run(args: argparse.Namespace) -> int:
         emit_json(result.to_json())
     else:
         sys.stdout.write(render_text(result.to_json()))
-    return 0
+    return fail_on_status(args, result)
 
 
 def _network(values: dict) -> str:

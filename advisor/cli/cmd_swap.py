@@ -23,10 +23,11 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("new", metavar="NEW", help="the part to fit instead, e.g. 74HC221")
     add_circuit_options(p, targets=False)
     add_new_vcc_option(p)
-    from advisor.cli.options import add_keep_within_option, add_series_options
+    from advisor.cli.options import add_fail_on_option, add_keep_within_option, add_series_options
 
     add_series_options(p, capacitors=False)
     add_keep_within_option(p)
+    add_fail_on_option(p)
     p.add_argument("--old-package", metavar="PKG", help="the old part's package, e.g. DIP-14 (default: its first)")
     p.add_argument("--new-package", metavar="PKG", help="the new part's package (default: the one closest to the old)")
     from advisor.cli.options import add_report_option
@@ -35,7 +36,7 @@ def register(p: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, keep_within_from_args, new_vcc_from_args, series_from_args, with_series
+    from advisor.cli.options import circuit_from_args, fail_on_status, keep_within_from_args, new_vcc_from_args, series_from_args, with_series
     from advisor.cli.output import catalog_for, emit_json
     from advisor.substitute.swap import swap
     from advisor.substitute.text import render_swap
@@ -53,4 +54,4 @@ def run(args: argparse.Namespace) -> int:
         emit_json(result.to_json())
     else:
         sys.stdout.write(render_swap(result.to_json()))
-    return 0
+    return fail_on_status(args, result)

@@ -244,3 +244,46 @@ def add_new_vcc_option(p: argparse.ArgumentParser) -> None:
 def new_vcc_from_args(args: argparse.Namespace) -> float | None:
     """The parsed ``--new-vcc`` (V), or None when absent; a bad value is one located error."""
     return _get(args, "--new-vcc", "voltage")
+
+
+# --- exit status scripts can use (--fail-on on check, design, swap, alternates, bom, ...) ----
+
+#: Exit status when a finding of the --fail-on severity (or worse) is present.
+FAIL_ON_EXIT = 4
+
+
+def add_fail_on_option(p: argparse.ArgumentParser) -> None:
+    """Register ``--fail-on danger|warning``: exit 4 when such a finding (or a worse one) is in the answer."""
+    p.add_argument("--fail-on", choices=["danger", "warning"], metavar="SEVERITY",
+                   help="exit with status 4 when the answer holds a finding of this severity "
+                        "(danger or warning) or worse; 0 otherwise")
+
+
+def _severities(answer: object):
+    """Every finding severity anywhere in an answer's JSON (``findings`` lists at any depth)."""
+    if isinstance(answer, dict):
+        for key, value in answer.items():
+            if key == "findings" and isinstance(value, list):
+                for f in value:
+                    if isinstance(f, dict) and isinstance(f.get("severity"), str):
+                        yield f["severity"]
+            else:
+                yield from _severities(value)
+    elif isinstance(answer, list):
+        for item in answer:
+            yield from _severities(item)
+
+
+def fail_on_status(args: argparse.Namespace, answer: object) -> int:
+    """0, or :data:`FAIL_ON_EXIT` when ``--fail-on`` was given and the answer holds such a finding.
+
+    ``answer`` is the result object (its ``to_json()`` is read) or the JSON dict itself.
+    """
+    level = getattr(args, "fail_on", None)
+    if not level:
+        return 0
+    from advisor.findings import SEVERITY_ORDER
+
+    data = answer.to_json() if hasattr(answer, "to_json") else answer
+    limit = SEVERITY_ORDER[level]
+    return FAIL_ON_EXIT if any(SEVERITY_ORDER.get(s, 99) <= limit for s in _severities(data)) else 0
