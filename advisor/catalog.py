@@ -18,6 +18,8 @@ from advisor.errors import UnknownPartError, key_path as _loc, raise_first_probl
 from advisor.parts import RESERVED_SOURCES, Family, Lifecycle, Sourced
 from advisor.resources import data_dirs
 
+MAKERS_FILE = "makers.yaml"  # advisor.makers reads it; not a part family
+
 try:  # the C loader is ~10x faster; fall back when libyaml is absent
     _Loader = yaml.CSafeLoader
 except AttributeError:  # pragma: no cover
@@ -210,6 +212,7 @@ class Catalog:
     families: dict[str, Family] = field(default_factory=dict)
     files: dict[str, str] = field(default_factory=dict)  # id -> file it came from
     problems: list[Problem] = field(default_factory=list)
+    makers: "MakerBook" = field(default_factory=lambda: _empty_book())  # catalog/makers.yaml
 
     def ids(self) -> list[str]:
         return sorted(self.families, key=_natural)
@@ -231,6 +234,64 @@ class Catalog:
         return resolve_family(self, query)
 
 
+def _empty_book():
+    from advisor.makers import MakerBook
+
+    return MakerBook()
+
+
+def _load_makers(cat: "Catalog", path: Path, label: str) -> None:
+    from pydantic import ValidationError
+
+    from advisor.makers import read_makers
+
+    try:
+        data = read_makers(path)
+    except yaml.YAMLError as exc:
+        cat.problems.append(Problem(label, "", f"not valid YAML: {getattr(exc, 'problem', exc)}"))
+        return
+    except (OSError, UnicodeDecodeError) as exc:
+        cat.problems.append(Problem(label, "", f"cannot read: {exc}"))
+        return
+    except ValidationError as exc:
+        for err in exc.errors():
+            cat.problems.append(Problem(label, _loc(err["loc"]), err["msg"]))
+        return
+    cat.makers.add(data)
+    cat.problems.extend(Problem(*p) for p in cat.makers.problems(label))
+
+
+def maker_problems(cat: "Catalog") -> list[Problem]:
+    """Every ``maker:`` a family names is a maker id of catalog/makers.yaml."""
+    known = set(cat.makers.makers)
+    if not known:
+        return []
+    out = []
+    for key, fam in cat.families.items():
+        seen: set[str] = set()
+
+        def visit(obj: object, path: str) -> None:
+            if isinstance(obj, BaseModel):
+                m = getattr(obj, "maker", None)
+                if isinstance(m, str) and m not in known and (path, m) not in seen:
+                    seen.add((path, m))
+                    hint = cat.makers.canonical(m)
+                    expected = f"the maker id {hint!r}" if hint else "a maker id of catalog/makers.yaml"
+                    out.append(Problem(cat.files[key], f"{path}.maker", f"unknown maker {m!r}; expected {expected}"))
+                for name in type(obj).model_fields:
+                    visit(getattr(obj, name), f"{path}.{name}" if path else name)
+            elif isinstance(obj, list):
+                for i, item in enumerate(obj):
+                    visit(item, f"{path}[{i}]")
+            elif isinstance(obj, dict):
+                for k, item in obj.items():
+                    visit(item, f"{path}.{k}")
+
+        visit(fam.timing, "timing")
+        visit(fam.components, "components")
+    return out
+
+
 def _natural(text: str) -> tuple:
     import re
 
@@ -245,6 +306,9 @@ def load_dirs(dirs: list[Path]) -> Catalog:
             if path.name.startswith("_"):
                 continue
             label = f"catalog/{path.name}" if d == dirs[0] else str(path)
+            if path.name == MAKERS_FILE:
+                _load_makers(cat, path, label)
+                continue
             try:
                 data = yaml.load(path.read_text(encoding="utf-8"), Loader=_Loader)
             except yaml.YAMLError as exc:
@@ -267,6 +331,7 @@ def load_dirs(dirs: list[Path]) -> Catalog:
             cat.families[key] = fam
             cat.files[key] = label
     cat.problems.extend(catalog_problems(cat))
+    cat.problems.extend(maker_problems(cat))
     return cat
 
 

@@ -86,6 +86,10 @@ class Circuit:
     cont: float | None = None  # V, a 555's control pin driven to this voltage (None: open)
     r_series: str | None = None  # E-series the user chose for resistors: its tolerance when --r-tol is absent
     c_series: str | None = None  # E-series the user chose for capacitors: likewise for --c-tol
+    #: Makers the part number (or ``--maker``) names, as ids of catalog/makers.yaml; empty
+    #: when it names none. ``maker_basis`` says how: "part-number prefix" or "--maker".
+    makers: tuple[str, ...] = ()
+    maker_basis: str | None = None
 
     def __post_init__(self) -> None:
         if self.pot_setting is not None and not 0.0 <= self.pot_setting <= 1.0:

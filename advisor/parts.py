@@ -106,6 +106,79 @@ class Sourced(_Frozen):
 
 SourcedList = list[Sourced]
 
+#: How a spread figure was published: ``guaranteed`` limits (min/max columns) or a
+#: ``typical`` figure only, which the engine widens by one documented rule
+#: (``advisor.timing.spread.TYPICAL_WIDENING``).
+SpreadBasis = Literal["guaranteed", "typical"]
+
+
+class Spread(Sourced):
+    """Part-to-part spread of the timing, as fractions of the nominal width or period.
+
+    ``value`` is a symmetric ± fraction; ``minus``/``plus`` give an asymmetric one
+    (a sheet's min and max relative to its typical). ``basis`` says whether the
+    figure is a guaranteed limit or a typical one. Conditions (supply, C, maker)
+    work as on every sourced number: a spread published per supply or per maker
+    is a list of entries.
+    """
+
+    value: float | None = None
+    minus: float | None = None
+    plus: float | None = None
+    basis: SpreadBasis = "typical"
+
+    @model_validator(mode="after")
+    def _given(self) -> "Spread":
+        if self.value is None and (self.minus is None or self.plus is None):
+            raise ValueError("give value (symmetric fraction) or both minus and plus")
+        for name in ("value", "minus", "plus"):
+            v = getattr(self, name)
+            if v is not None and not 0.0 <= v < 1.0:
+                raise ValueError(f"{name} {v!r} is outside 0..1 (a fraction of the nominal, 0.05 = 5 %)")
+        return self
+
+    def bounds(self) -> tuple[float, float]:
+        """(minus, plus) as published, before any widening."""
+        lo = self.minus if self.minus is not None else self.value
+        hi = self.plus if self.plus is not None else self.value
+        return float(lo), float(hi)
+
+    def text(self) -> str:
+        """Short display form: ``±3 % guaranteed`` or ``-5 %/+5.2 % typical``."""
+        lo, hi = self.bounds()
+        span = f"±{lo * 100:.3g} %" if lo == hi else f"-{lo * 100:.3g} %/+{hi * 100:.3g} %"
+        return f"{span} {self.basis}"
+
+
+class WidthRow(_Frozen):
+    """One row of a published table of output widths (s) at a stated R (Ω), C (F) and supply (V).
+
+    ``typ`` is the sheet's typical width; ``min``/``max`` its guaranteed limits when
+    the sheet prints them. ``table`` names the table in the source (``"Table 8"``).
+    The engine fits the maker's law to the row (``advisor.timing.tables``).
+    """
+
+    r: float
+    c: float
+    vcc: float
+    typ: float
+    min: float | None = None
+    max: float | None = None
+    source: str
+    table: str
+    maker: str | None = None
+    note: str | None = None
+
+    @model_validator(mode="after")
+    def _ordered(self) -> "WidthRow":
+        if self.r <= 0 or self.c <= 0 or self.vcc <= 0 or self.typ <= 0:
+            raise ValueError("r, c, vcc and typ must be above zero")
+        if self.min is not None and self.min > self.typ:
+            raise ValueError(f"min {self.min} is above typ {self.typ}")
+        if self.max is not None and self.max < self.typ:
+            raise ValueError(f"max {self.max} is below typ {self.typ}")
+        return self
+
 
 class Range(_Frozen):
     min: float
@@ -149,8 +222,16 @@ class Timing(_Frozen):
     f_max: Sourced | None = None  # frequency above which the formula stops holding (Hz)
     width_min: Sourced | None = None
     width_max: Sourced | None = None
-    spread: Sourced | None = None  # part-to-part spread of the constant, fraction
+    #: Part-to-part spread of the timing; one entry, or a list per supply / maker.
+    spread: list[Spread] = Field(default_factory=list)
+    #: Published min/typ/max width tables (rows), honoured by the law.
+    widths: list[WidthRow] = Field(default_factory=list)
     note: str | None = None
+
+    @field_validator("spread", mode="before")
+    @classmethod
+    def _one_or_many(cls, v):
+        return [v] if isinstance(v, dict) else v
 
 
 class Components(_Frozen):

@@ -116,6 +116,16 @@ def findings_lines(findings: list[dict]) -> list[str]:
     return out
 
 
+def maker_text(j: dict) -> str:
+    """Whose constant the result uses: "Fairchild (part-number prefix)" or the makers the band spans."""
+    labels = list(dict.fromkeys(m.get("label") or m.get("source") for m in j.get("makers") or []))
+    if j.get("maker"):
+        return f"{j['maker']} constant ({j['maker_basis']})"
+    if len(labels) > 1:
+        return f"unknown: the band spans {', '.join(labels)}"
+    return j.get("maker_basis") or "unknown"
+
+
 def render_text(j: dict) -> str:
     """Compact text for the bench (reporter; the engine never prints)."""
     from advisor.values import format_eng
@@ -127,6 +137,8 @@ def render_text(j: dict) -> str:
         ("supply", format_eng(j["values"]["vcc"], "V")),
         ("tolerance", tolerance_text(j["tolerances"])),
     ]
+    if j.get("maker_basis"):
+        rows.append(("maker", maker_text(j)))
     rows += timing_lines(j["timing"], mode)
     cal = j.get("calibration")
     if cal:

@@ -82,10 +82,17 @@ def sheet_text(cat, fam) -> list[str]:
         span = f"  (published spread {s['min']:g}..{s['max']:g})" if s and s["min"] != s["max"] else ""
         out.append(f"  {name}{span}")
         out += [f"    {_fmt(v, unit)}" + (f"  - {v.note}" if v.note else "") for v in values]
-    for name, unit in (("r_internal", "Ω"), ("c_linear_min", "F"), ("f_max", "Hz"), ("width_min", "s"), ("width_max", "s"), ("spread", "")):
+    for name, unit in (("r_internal", "Ω"), ("c_linear_min", "F"), ("f_max", "Hz"), ("width_min", "s"), ("width_max", "s")):
         v = getattr(fam.timing, name)
         if v is not None:
             out.append(f"  {name}: {_fmt(v, unit)}")
+    for v in fam.timing.spread:
+        who = f"{v.maker}, " if v.maker else ""
+        out.append(f"  part-to-part spread: {v.text()}  ({who}<{v.source}>)" + (f"  - {v.note}" if v.note else ""))
+    for row in fam.timing.widths:
+        lim = f"{row.min:g}..{row.max:g}" if row.min is not None and row.max is not None else "typ only"
+        out.append(f"  published width at R {row.r:g} Ω, C {row.c:g} F, {row.vcc:g} V: typ {row.typ:g} s ({lim})"
+                   f"  <{row.source}, {row.table}>")
     if fam.timing.note:
         out.append(f"  note: {fam.timing.note}")
     out += ["", "Timing network limits"]

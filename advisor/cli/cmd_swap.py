@@ -46,7 +46,8 @@ def run(args: argparse.Namespace) -> int:
     series, _ = series_from_args(args)
     result = swap(catalog, old.id, args.new, with_series(args, circuit_from_args(args, old.id)),
                   new_vcc=new_vcc_from_args(args), series=series, old_package=args.old_package,
-                  new_package=args.new_package, keep_within=keep_within_from_args(args))
+                  new_package=args.new_package, keep_within=keep_within_from_args(args),
+                  new_maker=getattr(args, "maker", None))
     from advisor.cli.options import write_report_if_asked
 
     write_report_if_asked(args, result, "swap")

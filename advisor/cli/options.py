@@ -44,6 +44,9 @@ def add_circuit_options(p: argparse.ArgumentParser, *, targets: bool = True) -> 
         g.add_argument(flag, metavar="VALUE", help=help_)
     g.add_argument("--mode", choices=["mono", "astable"], help="555-class mode (default: mono, astable when RB is given)")
     g.add_argument("--trigger-edge", choices=["rising", "falling"], help="active edge of the trigger signal")
+    g.add_argument("--maker", metavar="NAME",
+                   help="use this maker's published constant (a maker of catalog/makers.yaml, e.g. NXP, TI, "
+                        "Fairchild); default: the maker the part number names, else the band spans the makers")
     _add_capture_options(g)
 
 
@@ -129,6 +132,7 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         measured=measured,
         target=target,
         cont=v.get("--cont"),
+        **_makers_from_args(args),
     )
 
 
@@ -191,6 +195,19 @@ def stock_from_args(args: argparse.Namespace, catalog):
     from advisor.substitute.stock import read_stock
 
     return read_stock(path, catalog)
+def _makers_from_args(args: argparse.Namespace) -> dict:
+    """``makers``/``maker_basis`` of the typed part number (``PART`` of check and design,
+    ``OLD`` of swap and alternates); ``--maker`` forces the maker of ``PART`` (swap
+    applies it to the new part)."""
+    typed = getattr(args, "part", None) or getattr(args, "old", None)
+    forced = getattr(args, "maker", None) if getattr(args, "part", None) is not None else None
+    if typed is None and forced is None:
+        return {}
+    from advisor.cli.output import catalog_for
+    from advisor.makers import makers_of
+
+    makers, basis = makers_of(catalog_for(args), typed or "", forced)
+    return {"makers": makers, "maker_basis": basis}
 
 
 # --- reports (--report FILE on check, swap, alternates and bom) ---------------------

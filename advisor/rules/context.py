@@ -311,6 +311,16 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         r_dis = _num(facts, "r_path_min")
     pot_in_path = facts.get("pot_in_discharge_path") if isinstance(facts.get("pot_in_discharge_path"), bool) else (
         bool(pot) and not (mode == "astable" and is_555))
+    # Makers' formulas are alternatives: with no maker named, the constant spans every
+    # maker's own figure (advisor.timing.alternatives); with one named, only its own.
+    alts = [m for m in timing.get("makers") or [] if isinstance(m, dict) and isinstance(m.get("constants"), dict)]
+    alt_k = [m["constants"][cname] for m in alts if cname and isinstance(m["constants"].get(cname), dict)]
+    if len(alt_k) > 1:
+        lows = [_num(k, "min") for k in alt_k if _num(k, "min") is not None]
+        highs = [_num(k, "max") for k in alt_k if _num(k, "max") is not None]
+        if lows and highs:
+            k_lo, k_hi = min(lows), max(highs)
+            k_count = float(len(alt_k))
 
     t = timing.get("timing") if isinstance(timing.get("timing"), dict) else {}
     nominal = t.get("nominal") if isinstance(t.get("nominal"), dict) else {}

@@ -31,9 +31,13 @@ class PartSide:
     technology: str
     status: str
     trigger: dict | None = None  # this side's trigger-rate verdict, when a trigger period was given
+    maker: str | None = None  # the maker whose constant this side's timing uses (None: unknown)
+    maker_basis: str | None = None
 
     def to_json(self) -> dict:
         return {
+            "maker": self.maker,
+            "maker_basis": self.maker_basis,
             "trigger": dict(self.trigger) if self.trigger else None,
             "family": self.family,
             "title": self.title,

@@ -86,7 +86,7 @@ def _duty_error(kept: dict, timing: dict) -> float:
 def _side(fam: Family, t, vcc: float | None) -> PartSide:
     trig = t.trigger.to_json() if t.trigger is not None else None
     return PartSide(fam.id, fam.title, vcc, dict(t.values), {k: dict(v) for k, v in t.timing.items()}, t.mode,
-                    fam.technology, fam.status, trig)
+                    fam.technology, fam.status, trig, getattr(t, "maker", None), getattr(t, "maker_basis", None))
 
 
 def new_circuit_for(circuit: Circuit, new: Family, vcc: float | None, mode: str) -> Circuit:
@@ -107,6 +107,7 @@ def swap(
     new_package: str | None = None,
     old_result=None,
     keep_within: float | None = None,
+    new_maker: str | None = None,
 ) -> SwapResult:
     """Replace ``old_query`` by ``new_query`` in ``circuit`` (see the module docstring).
 
@@ -141,7 +142,11 @@ def swap(
     tol = circuit.r_tolerance
     uses_rint = mode == "mono" and circuit.r is None and old.timing.r_internal is not None
 
-    base = new_circuit_for(circuit, new, vcc, mode)
+    from advisor.makers import makers_of
+
+    new_makers, new_basis = makers_of(catalog, new_query, new_maker)
+    base = new_circuit_for(circuit, new, vcc, mode).with_(makers=new_makers, maker_basis=new_basis)
+
     # --- values: keep them when they keep the pulse, else design -----------------
     chosen = None  # (circuit, how)
     design_info: dict = {"series": series, "goal": DESIGN_GOAL, "tolerance": tol}

@@ -76,6 +76,7 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
         adjust=adjust, target=target, calibration=cal, trigger=trig, findings=[], facts=network_facts(model),
         constants=dict(model.constants), tolerances=tolerances(circuit), assumptions=list(model.assumptions),
         distribution=dist, capture=circuit.measured.capture if circuit.measured is not None else None,
+        maker=model.maker, maker_basis=model.maker_basis, makers=list(model.alternatives),
     )
 
 

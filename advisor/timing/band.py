@@ -1,11 +1,16 @@
-"""Worst-case band: the law evaluated at every corner of its inputs' intervals.
+"""Worst-case band: the law evaluated at every corner of its inputs' intervals, for
+each maker's formula, and the union over the makers.
 
 Each input with a range (resistors ± their tolerance, capacitor ± its tolerance,
-the spread of published constants, the part-to-part spread) takes its low or high
+a constant a sheet gives as a range, the part-to-part spread) takes its low or high
 end; the band is the lowest and highest value of every output over all corners.
 The RC laws are monotonic in each input, so the corners bound the whole box
 (common practice for worst-case analysis). With n ranged inputs there are 2^n
 corners; n is at most eight here, so the cost stays under a millisecond.
+
+Makers' figures are alternatives, not a range (``advisor.timing.alternatives``): a
+part follows one maker's formula, so the band is the union of the per-maker bands,
+never a box spanning the makers' constants.
 """
 
 from __future__ import annotations
@@ -16,7 +21,25 @@ from advisor.timing.model import Model
 
 
 def band(model: Model, params: dict | None = None) -> tuple[dict, dict]:
-    """(min, max) dicts over the corners, with the same keys as ``model.times``."""
+    """(min, max) dicts over every maker's corners, with the same keys as ``model.times``."""
+    if len(model.alternatives) <= 1:
+        return maker_band(model, params)
+    keys = {k for a in model.alternatives for k in a.params}
+    lows: dict[str, float] = {}
+    highs: dict[str, float] = {}
+    for alt in model.alternatives:
+        m = model.for_alternative(alt)
+        p = None if params is None else {**{k: v for k, v in params.items() if k not in keys}, **alt.params}
+        lo, hi = maker_band(m, p)
+        for k, v in lo.items():
+            lows[k] = min(v, lows.get(k, v))
+        for k, v in hi.items():
+            highs[k] = max(v, highs.get(k, v))
+    return lows, highs
+
+
+def maker_band(model: Model, params: dict | None = None) -> tuple[dict, dict]:
+    """(min, max) over the corners of one formula (the model's own params and ranges)."""
     base = dict(model.params if params is None else params)
     names = [k for k, (lo, hi) in model.ranges.items() if hi != lo]
     lows: dict[str, float] = {}

@@ -62,8 +62,17 @@ def _make(name: str, values: list[Sourced], nominal: float | None = None, **flag
 
 
 def pick(family: Family, name: str, vcc: float | None, c: float | None) -> Constant | None:
-    """The constant ``name`` at supply ``vcc`` (V) and capacitance ``c`` (F), or None."""
-    published = family.timing.constants.get(name, [])
+    """The constant ``name`` at supply ``vcc`` (V) and capacitance ``c`` (F), or None.
+
+    Pools every maker's figures; the engine itself works per maker
+    (:func:`advisor.timing.alternatives.alternatives` calls :func:`pick_from` on one
+    source's figures at a time).
+    """
+    return pick_from(name, family.timing.constants.get(name, []), vcc, c)
+
+
+def pick_from(name: str, published: list[Sourced], vcc: float | None, c: float | None) -> Constant | None:
+    """:func:`pick` over a given list of published values (one source's, or all)."""
     if not published:
         return None
     exact = [v for v in published if v.applies(vcc, c)]

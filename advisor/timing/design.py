@@ -160,7 +160,9 @@ def design(
     tjson = {"kind": target.kind, "value": target.value, "duty": target.duty}
     if window is not None:
         tjson["range"] = {"min": window[0], "max": window[1]}
-    return DesignResult(family.id, mode, tjson, eseries._name(series), unique[:limit], findings, assumptions, tolerances(circuit))
+    assumptions += [a for a in probe.assumptions if a not in assumptions and "part number names" in a]
+    return DesignResult(family.id, mode, tjson, eseries._name(series), unique[:limit], findings, assumptions,
+                        tolerances(circuit), maker=probe.maker, maker_basis=probe.maker_basis)
 
 
 def _covers(cd: Candidate, window) -> bool:
@@ -243,7 +245,7 @@ def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, var
         period = t_goal / (duty or 0.524)
     else:
         period = t_goal
-    spread = model.params.get("spread", 1.0) * model.params.get("kf", 1.0)
+    spread = model.params.get("spread", 1.0) * model.params.get("kf", 1.0) * model.params.get("fit", 1.0)
     period /= spread
     if duty is not None and duty > 0.5:
         rb = (1 - duty) * period / (c * b)

@@ -9,8 +9,14 @@ through this one object, so every law gets all of them.
 Parameter names: ``r`` fixed main resistor (Rext, RA of a 555 monostable), ``rp``
 the part of the variable resistor in circuit, ``ra``/``rb`` the 555 astable pair
 (the variable resistor adds to RB), ``c``, ``vcc``, the law's constants by name,
-``kf`` (555: ratio of a published rounded constant to the exact law) and
-``spread`` (part-to-part multiplier, nominal 1).
+``kf`` (555: ratio of a published rounded constant to the exact law),
+``fit`` (a maker's published width table against its law, ``advisor.timing.tables``)
+and ``spread`` (part-to-part multiplier, nominal 1).
+
+Makers' figures are alternatives (``advisor.timing.alternatives``): the model's
+``params``/``ranges`` are those of the first alternative in use (the nominal), and
+``alternatives`` holds each one's own constants, fit and spread; the band and the
+Monte Carlo run over all of them (:meth:`Model.for_alternative`).
 """
 
 from __future__ import annotations
@@ -21,7 +27,10 @@ from advisor.circuit import Circuit
 from advisor.errors import InputError
 from advisor.parts import Family
 from advisor.timing import laws
-from advisor.timing.constants import Constant, pick
+from advisor.timing.alternatives import Alternative, MakerChoice, alternatives, choose
+from advisor.timing.constants import Constant
+from advisor.timing.spread import NO_SPREAD, PartSpread, part_spread
+from advisor.timing.tables import TableFit, fit_table
 
 #: Times of each mode's result, in the order reports show them.
 MONO_KEYS = ("width",)
@@ -48,6 +57,21 @@ class Model:
     r_internal: bool = False
     tolerance_kind: dict[str, str] = field(default_factory=dict)  # param -> "r" | "c" | "const" | "spread"
     cont: float | None = None  # V, driven 555 control pin
+    alternatives: list["AltParams"] = field(default_factory=list)  # makers' formulas in use, nominal first
+    maker: str | None = None  # the maker whose constant the nominal uses (None: unknown)
+    maker_basis: str = "unknown: band spans makers"
+
+    def for_alternative(self, alt: "AltParams") -> "Model":
+        """This model with one maker's constants, fit and spread in place of the nominal's."""
+        keys = {k for a in self.alternatives for k in a.params}
+        p = {k: v for k, v in self.params.items() if k not in keys}
+        p.update(alt.params)
+        rng = {k: v for k, v in self.ranges.items() if k not in keys}
+        rng.update(alt.ranges)
+        kinds = {k: v for k, v in self.tolerance_kind.items() if k not in keys}
+        kinds.update({k: ("spread" if k == "spread" else "const") for k in alt.ranges})
+        return replace(self, params=p, ranges=rng, tolerance_kind=kinds, constants=dict(alt.constants),
+                       alternatives=[alt])
 
     @property
     def keys(self) -> tuple[str, ...]:
@@ -60,7 +84,7 @@ class Model:
     def times(self, p: dict | None = None) -> dict:
         """Evaluate the law: {"width"} or {"high","low","period","frequency","duty"} (s, Hz)."""
         p = self.params if p is None else p
-        s = p.get("spread", 1.0) * p.get("kf", 1.0)
+        s = p.get("spread", 1.0) * p.get("kf", 1.0) * p.get("fit", 1.0)
         if self.mode == "mono":
             r = p["r"] + p.get("rp", 0.0)
             if self.law == "krc":
@@ -181,7 +205,6 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
         if mode == "astable" and law not in ("cd4047", "cd4541"):
             raise InputError(f"{family.id}: law {law!r} has no astable form", got="astable", expected="--mode mono")
 
-    constants: dict[str, Constant] = {}
     needed = {
         "krc": ("k", "r_offset"),
         "ln-supply": ("a",),
@@ -189,41 +212,201 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
         "cd4541": ("k_osc",),
         "timer-555": ("upper_threshold", "lower_threshold", "r_discharge"),
     }[law]
-    for name in needed:
-        if name == "r_discharge" and mode == "mono":
-            continue  # the discharge transistor only holds C at zero between pulses
-        const = pick(family, name, vcc, c)
-        if const is None:
+    if mode == "mono":
+        needed = tuple(n for n in needed if n != "r_discharge")  # it only holds C at zero between pulses
+    if law == "timer-555":
+        needed += ("mono_k",) if mode == "mono" else ("astable_k",)
+    cont = getattr(circuit, "cont", None)
+    if law == "timer-555" and cont is not None and not 0 < cont < vcc:
+        raise InputError(f"control voltage {cont:g} V must lie between 0 and the supply {vcc:g} V", got=cont)
+    choice = choose(family, alternatives(family, needed, vcc, c), circuit.makers, circuit.maker_basis)
+    assumptions.extend(choice.notes)
+    base = Model(family=family, law=law, mode=mode, params=params, ranges=ranges, constants={},
+                 tolerance_kind=kinds, cont=getattr(circuit, "cont", None) if law == "timer-555" else None)
+    alts = [_alt_params(base, a, circuit, vcc, c) for a in choice.alternatives]
+    nominal = alts[0]
+    params.update(nominal.params)
+    ranges.update(nominal.ranges)
+    kinds.update({k: ("spread" if k == "spread" else "const") for k in nominal.ranges})
+    constants = dict(nominal.constants)
+    return Model(
+        family=family, law=law, mode=mode, params=params, ranges=ranges, constants=constants,
+        pot=pot, pot_setting=setting if pot is not None else None, assumptions=assumptions,
+        r_internal=r_internal, tolerance_kind=kinds, cont=getattr(circuit, "cont", None) if law == "timer-555" else None,
+        alternatives=alts, maker=choice.maker, maker_basis=choice.basis,
+    )
+
+
+@dataclass(frozen=True)
+class AltParams:
+    """One maker's formula bound to the circuit: its params and ranges, spread and fit."""
+
+    label: str
+    maker: str | None
+    source: str
+    params: dict
+    ranges: dict
+    constants: dict
+    spread: PartSpread = NO_SPREAD
+    table: TableFit | None = None
+
+    def to_json(self) -> dict:
+        return {"maker": self.maker, "source": self.source, "label": self.label,
+                "constants": {k: v.to_json() for k, v in self.constants.items()},
+                "spread": self.spread.to_json(), "table": self.table.to_json() if self.table else None}
+
+
+_PARAM = {"upper_threshold": "upper", "lower_threshold": "lower", "r_discharge": "r_dis"}
+
+
+def _alt_params(base: Model, alt: Alternative, circuit: Circuit, vcc: float, c: float) -> AltParams:
+    """Params, ranges, spread and table fit of one alternative on ``base``'s circuit."""
+    fam, mode = base.family, base.mode
+    params: dict[str, float] = {}
+    ranges: dict[str, tuple[float, float]] = {}
+    consts = dict(alt.constants)
+    for name, const in consts.items():
+        if name in ("mono_k", "astable_k"):
             continue
-        constants[name] = const
-        key = {"upper_threshold": "upper", "lower_threshold": "lower", "r_discharge": "r_dis"}.get(name, name)
+        key = _PARAM.get(name, name)
         params[key] = const.nominal
         ranges[key] = (const.min, const.max)
-        kinds[key] = "const"
-    if law == "timer-555":
+    if base.law == "timer-555":
         params.setdefault("upper", 2.0 / 3.0)
         params.setdefault("lower", 1.0 / 3.0)
+        u, l = params["upper"], params["lower"]
         cont = getattr(circuit, "cont", None)
-        default_u, default_l = params["upper"], params["lower"]
         if cont is not None:
-            if not 0 < cont < vcc:
-                raise InputError(f"control voltage {cont:g} V must lie between 0 and the supply {vcc:g} V", got=cont)
             # Driving CONT moves both comparator references: THRES trips at Vc, TRIG at Vc/2
             # (TI NE555 SLFS022 functional description).
             params["upper"], params["lower"] = cont / vcc, cont / (2 * vcc)
             ranges.pop("upper", None)
             ranges.pop("lower", None)
-        _add_published_factor(family, mode, params, ranges, kinds, constants, vcc, c, default_u, default_l)
-    spread = family.timing.spread
-    if spread is not None and spread.value > 0:
+        name = "mono_k" if mode == "mono" else "astable_k"
+        if name in consts:
+            kf = _published_factor(consts[name], mode, {**base.params, **params}, u, l)
+            params["kf"] = 1.0
+            ranges["kf"] = kf
+    spread = part_spread(fam, alt.maker, alt.source, vcc, c)
+    table = None
+    if mode == "mono" and alt.rows:
+        probe = replace(base, params={**base.params, **params}, ranges={})
+
+        def law(r: float, cc: float, v: float) -> float:
+            return probe.times({**probe.params, "r": r, "rp": 0.0, "c": cc, "vcc": v})["width"]
+
+        table = fit_table(list(alt.rows), law, vcc, c)
+        if table is not None:
+            params["fit"] = table.fit
+            if table.minus is not None and table.plus is not None:
+                spread = PartSpread(table.minus, table.plus, "table",
+                                    tuple(dict.fromkeys(r.source for r in table.rows)))
+    if spread.minus > 0 or spread.plus > 0:
         params["spread"] = 1.0
-        ranges["spread"] = (1 - spread.value, 1 + spread.value)
-        kinds["spread"] = "spread"
-    return Model(
-        family=family, law=law, mode=mode, params=params, ranges=ranges, constants=constants,
-        pot=pot, pot_setting=setting if pot is not None else None, assumptions=assumptions,
-        r_internal=r_internal, tolerance_kind=kinds, cont=getattr(circuit, "cont", None) if law == "timer-555" else None,
-    )
+        ranges["spread"] = (1 - spread.minus, 1 + spread.plus)
+    return AltParams(alt.label, alt.maker, alt.source, params, ranges, consts, spread, table)
+
+
+def _published_factor(const: Constant, mode: str, p: dict, u: float, l: float) -> tuple[float, float]:
+    """555: the rounded published constants (1.1, 1.44, one maker's 1.38) against the exact law.
+
+    The exact law is the nominal; each published constant's ratio to it widens the
+    band, so the spread between makers shows in min/max (design guide, catalog).
+    """
+    if mode == "mono":
+        exact = laws.timer555_mono(1.0, 1.0, u)
+        ratios = [k / exact for k in (const.min, const.max)]
+    else:
+        ra, rb = p["ra"], p["rb"] + p.get("rp", 0.0)
+        th, tl = laws.timer555_astable(ra, rb, 1.0, u, l)
+        ratios = [((ra + 2 * rb) / k) / (th + tl) for k in (const.min, const.max)]
+    return (min(ratios + [1.0]), max(ratios + [1.0]))
+
+
+@dataclass(frozen=True)
+class AltParams:
+    """One maker's formula bound to the circuit: its params and ranges, spread and fit."""
+
+    label: str
+    maker: str | None
+    source: str
+    params: dict
+    ranges: dict
+    constants: dict
+    spread: PartSpread = NO_SPREAD
+    table: TableFit | None = None
+
+    def to_json(self) -> dict:
+        return {"maker": self.maker, "source": self.source, "label": self.label,
+                "constants": {k: v.to_json() for k, v in self.constants.items()},
+                "spread": self.spread.to_json(), "table": self.table.to_json() if self.table else None}
+
+
+_PARAM = {"upper_threshold": "upper", "lower_threshold": "lower", "r_discharge": "r_dis"}
+
+
+def _alt_params(base: Model, alt: Alternative, circuit: Circuit, vcc: float, c: float) -> AltParams:
+    """Params, ranges, spread and table fit of one alternative on ``base``'s circuit."""
+    fam, mode = base.family, base.mode
+    params: dict[str, float] = {}
+    ranges: dict[str, tuple[float, float]] = {}
+    consts = dict(alt.constants)
+    for name, const in consts.items():
+        if name in ("mono_k", "astable_k"):
+            continue
+        key = _PARAM.get(name, name)
+        params[key] = const.nominal
+        ranges[key] = (const.min, const.max)
+    if base.law == "timer-555":
+        params.setdefault("upper", 2.0 / 3.0)
+        params.setdefault("lower", 1.0 / 3.0)
+        u, l = params["upper"], params["lower"]
+        cont = getattr(circuit, "cont", None)
+        if cont is not None:
+            # Driving CONT moves both comparator references: THRES trips at Vc, TRIG at Vc/2
+            # (TI NE555 SLFS022 functional description).
+            params["upper"], params["lower"] = cont / vcc, cont / (2 * vcc)
+            ranges.pop("upper", None)
+            ranges.pop("lower", None)
+        name = "mono_k" if mode == "mono" else "astable_k"
+        if name in consts:
+            kf = _published_factor(consts[name], mode, {**base.params, **params}, u, l)
+            params["kf"] = 1.0
+            ranges["kf"] = kf
+    spread = part_spread(fam, alt.maker, alt.source, vcc, c)
+    table = None
+    if mode == "mono" and alt.rows:
+        probe = replace(base, params={**base.params, **params}, ranges={})
+
+        def law(r: float, cc: float, v: float) -> float:
+            return probe.times({**probe.params, "r": r, "rp": 0.0, "c": cc, "vcc": v})["width"]
+
+        table = fit_table(list(alt.rows), law, vcc, c)
+        if table is not None:
+            params["fit"] = table.fit
+            if table.minus is not None and table.plus is not None:
+                spread = PartSpread(table.minus, table.plus, "table",
+                                    tuple(dict.fromkeys(r.source for r in table.rows)))
+    if spread.minus > 0 or spread.plus > 0:
+        params["spread"] = 1.0
+        ranges["spread"] = (1 - spread.minus, 1 + spread.plus)
+    return AltParams(alt.label, alt.maker, alt.source, params, ranges, consts, spread, table)
+
+
+def _published_factor(const: Constant, mode: str, p: dict, u: float, l: float) -> tuple[float, float]:
+    """555: the rounded published constants (1.1, 1.44, one maker's 1.38) against the exact law.
+
+    The exact law is the nominal; each published constant's ratio to it widens the
+    band, so the spread between makers shows in min/max (design guide, catalog).
+    """
+    if mode == "mono":
+        exact = laws.timer555_mono(1.0, 1.0, u)
+        ratios = [k / exact for k in (const.min, const.max)]
+    else:
+        ra, rb = p["ra"], p["rb"] + p.get("rp", 0.0)
+        th, tl = laws.timer555_astable(ra, rb, 1.0, u, l)
+        ratios = [((ra + 2 * rb) / k) / (th + tl) for k in (const.min, const.max)]
+    return (min(ratios + [1.0]), max(ratios + [1.0]))
 
 
 def _add_published_factor(family, mode, params, ranges, kinds, constants, vcc, c, u, l) -> None:

@@ -3,9 +3,11 @@
 Resistors, capacitors and the part-to-part spread are drawn from normal
 distributions whose ±3σ span the tolerance, clipped at the tolerance (common
 practice: a "5 %" part is a process centred on its value, screened at the limit);
-published constants are drawn uniformly between the lowest and highest published
-value (nothing says which maker's figure is right). The law is evaluated once on
-arrays; 100 000 samples take a few milliseconds.
+a constant one sheet gives as a range is drawn uniformly inside it. Makers'
+figures are alternatives, not a range: each sample first draws a maker's formula
+(equally likely: nothing says which maker's part is on the board), then that
+maker's part (``advisor.timing.alternatives``). The law is evaluated once per
+maker on arrays; 100 000 samples take a few milliseconds.
 """
 
 from __future__ import annotations
@@ -56,6 +58,25 @@ def sample_params(model: Model, n: int, rng) -> dict:
     return p
 
 
+def draw(model: Model, n: int, rng, quantity: str):
+    """``n`` samples of ``quantity``: a maker's formula per sample, then that maker's part."""
+    import numpy as np
+
+    alts = model.alternatives
+    if len(alts) <= 1:
+        values = model.times(sample_params(model, n, rng))[quantity]
+        return np.broadcast_to(np.asarray(values, dtype=float), (n,))
+    counts = np.bincount(rng.integers(0, len(alts), n), minlength=len(alts))
+    parts = []
+    for alt, k in zip(alts, counts.tolist()):
+        if k == 0:
+            continue
+        m = model.for_alternative(alt)
+        v = m.times(sample_params(m, k, rng))[quantity]
+        parts.append(np.broadcast_to(np.asarray(v, dtype=float), (k,)))
+    return np.concatenate(parts)
+
+
 def simulate(
     model: Model,
     samples: int = 100_000,
@@ -74,8 +95,7 @@ def simulate(
 
     rng = np.random.default_rng(seed)
     q = quantity or model.main_quantity
-    values = model.times(sample_params(model, samples, rng))[q]
-    values = np.broadcast_to(np.asarray(values, dtype=float), (samples,))
+    values = draw(model, samples, rng, q)
     if q == "frequency":
         values = values / scale
     elif q != "duty":

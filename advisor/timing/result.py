@@ -32,10 +32,16 @@ class TimingResult:
     extra: dict = field(default_factory=dict)
     capture: dict | None = None  # summary of the scope capture behind the measurement (advisor.measure.summary)
     facts: dict = field(default_factory=dict)  # what the rules judge: paths, chosen limits (advisor.timing.validity)
+    maker: str | None = None  # the maker whose constant the nominal uses; None when unknown
+    maker_basis: str | None = None  # "part-number prefix", "--maker", "unknown: band spans makers", ...
+    makers: list = field(default_factory=list)  # each maker's formula in the band (AltParams), nominal first
 
     def to_json(self) -> dict:
         out = {
             "part": self.part,
+            "maker": self.maker,
+            "maker_basis": self.maker_basis,
+            "makers": [_json(m) for m in self.makers],
             "mode": self.mode,
             "law": self.law,
             "values": dict(self.values),
@@ -100,6 +106,8 @@ class DesignResult:
     findings: list[Finding] = field(default_factory=list)
     assumptions: list[str] = field(default_factory=list)
     tolerances: dict = field(default_factory=dict)
+    maker: str | None = None
+    maker_basis: str | None = None
 
     @property
     def best(self) -> Candidate | None:
@@ -109,6 +117,8 @@ class DesignResult:
         best = self.best
         return {
             "part": self.part,
+            "maker": self.maker,
+            "maker_basis": self.maker_basis,
             "mode": self.mode,
             "target": self.target,
             "series": self.series,

@@ -75,11 +75,13 @@ def render_sheet(fam) -> Group:
     for name, vals in fam.timing.constants.items():
         for v in vals:
             t.add_row(name, f"{v.value:g}", _cond(v), _src(v.source))
-    for name, unit in (("r_internal", "Ω"), ("c_linear_min", "F"), ("f_max", "Hz"), ("width_min", "s"), ("width_max", "s"), ("spread", "")):
+    for name, unit in (("r_internal", "Ω"), ("c_linear_min", "F"), ("f_max", "Hz"), ("width_min", "s"), ("width_max", "s")):
         v = getattr(fam.timing, name)
         if v is not None:
             shown = f"{v.value:g}" if not unit else format_eng(v.value, unit)
             t.add_row(name.replace("_", " "), shown, _cond(v), _src(v.source))
+    for v in fam.timing.spread:
+        t.add_row("spread", v.text(), _cond(v), _src(v.source))
     out.append(t)
     if fam.timing.note:
         out.append(Text(fam.timing.note, style=S["dim"]))
