@@ -33,6 +33,8 @@ def cat():
 
 def test_every_catalog_file_states_its_lifecycle_with_date_and_source():
     for path in sorted((ROOT / "catalog").glob("*.yaml")):
+        if path.name == "makers.yaml":  # the makers list, not a part family
+            continue
         data = yaml.safe_load(path.read_text(encoding="utf-8"))
         life = data.get("lifecycle")
         assert life, f"{path.name}: no lifecycle block"
