@@ -36,3 +36,13 @@ def kicad_symbols_dir() -> Path:
     """The installed KiCad symbol libraries, or skip/fail per REQUIRE_EXTERNAL."""
     require_external("kicad-symbols", (KICAD_SYMBOLS / "Timer.kicad_sym").exists(), "kicad-symbols")
     return KICAD_SYMBOLS
+
+
+KICAD_DEMOS = Path("/usr/share/kicad/demos")
+
+
+def kicad_demos_dir() -> Path:
+    """KiCad's installed demo projects (schematics with the PCBs made from them), or skip/fail."""
+    require_external("kicad-demos", any(KICAD_DEMOS.rglob("*.kicad_pcb")) if KICAD_DEMOS.is_dir() else False,
+                     "kicad-demos")
+    return KICAD_DEMOS
