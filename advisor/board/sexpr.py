@@ -37,7 +37,8 @@ def loads(text: str, where: str) -> list:
     try:
         tree = sexpdata.loads(text, nil=None, true=None, false=None)
     except Exception as exc:  # sexpdata raises its own exception classes and ValueError
-        raise BoardFileError(f"{where}: not a readable S-expression ({_short(exc)}){_line_hint(text)}") from None
+        hint = _line_hint(text) or f" ({_short(exc)})"
+        raise BoardFileError(f"{where}: not a readable S-expression{hint}") from None
     if not isinstance(tree, list) or not tree:
         raise BoardFileError(f"{where}: no S-expression found")
     _plain(tree, sexpdata.Symbol)
@@ -64,7 +65,7 @@ def _short(exc: Exception) -> str:
 
 def _line_hint(text: str) -> str:
     """Where the brackets stop balancing: the line of the first unclosed or extra bracket."""
-    depth, line, in_str, esc, open_lines = 0, 1, False, False, []
+    line, in_str, esc, open_lines, str_line = 1, False, False, [], 0
     for ch in text:
         if ch == "\n":
             line += 1
@@ -77,7 +78,7 @@ def _line_hint(text: str) -> str:
                 in_str = False
             continue
         if ch == '"':
-            in_str = True
+            in_str, str_line = True, line
         elif ch == "(":
             open_lines.append(line)
         elif ch == ")":
@@ -85,10 +86,10 @@ def _line_hint(text: str) -> str:
                 return f" at line {line}: a ')' with nothing to close"
             open_lines.pop()
     if in_str:
-        return " (a quoted string never closes)"
+        return f": the quoted string opened at line {str_line} never closes (a cut-off file?)"
     if open_lines:
-        return f"; the '(' opened at line {open_lines[0]} is never closed" if len(open_lines) == 1 else \
-            f"; {len(open_lines)} brackets never close (the outermost opened at line {open_lines[0]})"
+        return (f": the '(' opened at line {open_lines[0]} is never closed" if len(open_lines) == 1 else
+                f": {len(open_lines)} brackets never close (the innermost opened at line {open_lines[-1]}; a cut-off file?)")
     return ""
 
 

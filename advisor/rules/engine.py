@@ -39,7 +39,7 @@ class CompiledRule:
     @property
     def subject(self) -> str:
         """The prefix the applies_to filters look at: ``part`` or ``new``."""
-        return "part" if self.rule.applies_to.scope == "part" else "new"
+        return "part" if self.rule.applies_to.scope in ("part", "board") else "new"
 
     def applies(self, view: dict) -> bool:
         a = self.rule.applies_to
@@ -162,7 +162,7 @@ def evaluate(context: dict, rules: RuleSet | None = None) -> list[Finding]:
                 view = views.get(role)
                 if view is not None and rule.fires(view):
                     findings.append(rule.finding(view, part=view.get("part.id"), role=role))  # type: ignore[arg-type]
-        elif context.get("swap") is True and rule.fires(context):
+        elif scope.scope == "swap" and context.get("swap") is True and rule.fires(context):
             findings.append(rule.finding(context, part=context.get("new.id"), role="swap"))  # type: ignore[arg-type]
     return sort_findings(findings)
 

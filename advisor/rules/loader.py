@@ -19,6 +19,7 @@ import yaml
 
 from advisor.errors import key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.resources import data_dirs
+from advisor.board.facts import board_vocabulary
 from advisor.rules.context import Var, vocabulary
 from advisor.rules.engine import CompiledRule, RuleSet
 from advisor.rules.safe_expr import ExprError, compile_expr
@@ -30,6 +31,7 @@ except AttributeError:  # pragma: no cover
     _Loader = yaml.SafeLoader
 
 _VOCAB: dict[str, dict[str, Var]] = {s: vocabulary(s) for s in ("part", "swap")}
+_VOCAB["board"] = board_vocabulary(_VOCAB["part"])
 
 
 @dataclass(frozen=True)

@@ -15,7 +15,7 @@ from pydantic import BaseModel, ConfigDict, Field, StrictBool, StrictFloat, Stri
 from advisor.parts import Function, Technology
 
 Severity = Literal["danger", "warning", "note"]
-Scope = Literal["part", "swap"]
+Scope = Literal["part", "swap", "board"]  # board: advisor/board/facts.py
 Role = Literal["new", "old"]
 Scalar = Union[StrictBool, StrictInt, StrictFloat, StrictStr, None]
 #: What a firing means for a swap, mildest first (advisor.substitute.classify.CLASS_ORDER).
