@@ -33,13 +33,13 @@ def register(p: argparse.ArgumentParser) -> None:
     add_report_option(p)
 
 
-def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import (circuit_from_args, fail_on_status, keep_within_from_args, new_vcc_from_args,
+def compute(args: argparse.Namespace):
+    """The engine's answer for these arguments (the Python API calls it too)."""
+    from advisor.cli.options import (circuit_from_args, keep_within_from_args, new_vcc_from_args,
                                      series_from_args, stock_from_args, with_series)
-    from advisor.cli.output import catalog_for, emit_json
+    from advisor.cli.output import catalog_for
     from advisor.errors import InputError
     from advisor.substitute.alternates import alternates
-    from advisor.substitute.text import render_alternates
 
     if args.limit < 0:
         raise InputError("--limit: give 0 (all) or a positive number", got=args.limit)
@@ -50,6 +50,15 @@ def run(args: argparse.Namespace) -> int:
     result = alternates(catalog, old.id, circuit, new_vcc=new_vcc_from_args(args), limit=args.limit, series=series,
                         include_obsolete=args.include_obsolete, stock=stock_from_args(args, catalog),
                         keep_within=keep_within_from_args(args))
+    return result
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import fail_on_status
+    from advisor.cli.output import emit_json
+    from advisor.substitute.text import render_alternates
+
+    result = compute(args)
     from advisor.cli.options import write_report_if_asked
 
     write_report_if_asked(args, result, "alternates")

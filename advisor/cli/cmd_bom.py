@@ -28,12 +28,12 @@ def register(p: argparse.ArgumentParser) -> None:
     add_report_option(p)
 
 
-def run(args: argparse.Namespace) -> int:
+def compute(args: argparse.Namespace):
+    """The review for these arguments (the Python API calls it too); nothing is written."""
     from advisor.bom.progress import Progress
     from advisor.bom.review import review_bom
     from advisor.bom.table import read_table
-    from advisor.bom.write import write_bom
-    from advisor.cli.output import catalog_for, emit_json
+    from advisor.cli.output import catalog_for
     from advisor.values import parse_quantity
 
     new_vcc = parse_quantity(args.new_vcc, "voltage") if args.new_vcc else None
@@ -47,6 +47,14 @@ def run(args: argparse.Namespace) -> int:
                          limit=max(1, args.limit), progress=bar)
     finally:
         bar.close()
+    return res
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.bom.write import write_bom
+    from advisor.cli.output import emit_json
+
+    res = compute(args)
     if args.output:
         write_bom(res, args.output)
     from advisor.cli.options import write_report_if_asked

@@ -28,9 +28,10 @@ def register(p: argparse.ArgumentParser) -> None:
     add_report_option(p)
 
 
-def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, fail_on_status, new_vcc_from_args, write_report_if_asked
-    from advisor.cli.output import catalog_for, emit_json
+def compute(args: argparse.Namespace):
+    """The engine's answer for these arguments (the Python API calls it too)."""
+    from advisor.cli.options import circuit_from_args, new_vcc_from_args
+    from advisor.cli.output import catalog_for
     from advisor.errors import InputError
     from advisor.checking import check_circuit
 
@@ -41,6 +42,14 @@ def run(args: argparse.Namespace) -> int:
     if args.monte_carlo is not None and not 100 <= args.monte_carlo <= 10_000_000:
         raise InputError("--monte-carlo: give between 100 and 10 000 000 samples", got=args.monte_carlo)
     result = check_circuit(family, circuit, new_vcc=new_vcc, samples=args.monte_carlo)
+    return result
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import fail_on_status, write_report_if_asked
+    from advisor.cli.output import emit_json
+
+    result = compute(args)
     write_report_if_asked(args, result, "check")
     if args.json:
         emit_json(result.to_json())

@@ -32,15 +32,24 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("--limit", type=int, default=5, help="candidates shown (default 5)")
 
 
-def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, fail_on_status
-    from advisor.cli.output import catalog_for, emit_json
+def compute(args: argparse.Namespace):
+    """The engine's answer for these arguments (the Python API calls it too)."""
+    from advisor.cli.options import circuit_from_args
+    from advisor.cli.output import catalog_for
     from advisor.timing import design
 
     catalog = catalog_for(args)
     family = catalog.resolve(args.part)
     circuit = circuit_from_args(args, family.id)
     result = design(family, circuit, series=args.series, keep_c=not args.new_c, limit=max(1, args.limit))
+    return result
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import fail_on_status
+    from advisor.cli.output import emit_json
+
+    result = compute(args)
     if args.json:
         emit_json(result.to_json())
     else:

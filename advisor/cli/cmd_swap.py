@@ -35,11 +35,11 @@ def register(p: argparse.ArgumentParser) -> None:
     add_report_option(p)
 
 
-def run(args: argparse.Namespace) -> int:
-    from advisor.cli.options import circuit_from_args, fail_on_status, keep_within_from_args, new_vcc_from_args, series_from_args, with_series
-    from advisor.cli.output import catalog_for, emit_json
+def compute(args: argparse.Namespace):
+    """The engine's answer for these arguments (the Python API calls it too)."""
+    from advisor.cli.options import circuit_from_args, keep_within_from_args, new_vcc_from_args, series_from_args, with_series
+    from advisor.cli.output import catalog_for
     from advisor.substitute.swap import swap
-    from advisor.substitute.text import render_swap
 
     catalog = catalog_for(args)
     old = catalog.resolve(args.old)
@@ -48,6 +48,15 @@ def run(args: argparse.Namespace) -> int:
                   new_vcc=new_vcc_from_args(args), series=series, old_package=args.old_package,
                   new_package=args.new_package, keep_within=keep_within_from_args(args),
                   new_maker=getattr(args, "maker", None))
+    return result
+
+
+def run(args: argparse.Namespace) -> int:
+    from advisor.cli.options import fail_on_status
+    from advisor.cli.output import emit_json
+    from advisor.substitute.text import render_swap
+
+    result = compute(args)
     from advisor.cli.options import write_report_if_asked
 
     write_report_if_asked(args, result, "swap")
