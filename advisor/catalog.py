@@ -289,6 +289,7 @@ def maker_problems(cat: "Catalog") -> list[Problem]:
 
         visit(fam.timing, "timing")
         visit(fam.components, "components")
+        visit(fam.sources, "sources")
     return out
 
 

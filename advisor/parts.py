@@ -65,6 +65,7 @@ class Source(_Frozen):
     title: str
     document: str | None = None  # maker's document id and revision, e.g. "SCLS145F"
     kind: SourceKind
+    maker: str | None = None  # the maker whose document it is (an id of catalog/makers.yaml)
     note: str | None = None
 
 

@@ -24,7 +24,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from advisor.parts import Family, Sourced, WidthRow
+from advisor.parts import RESERVED_SOURCES, Family, Sourced, WidthRow
 from advisor.timing.constants import Constant, pick_from
 
 #: Constants a formula may do without (the law then uses its default).
@@ -60,19 +60,25 @@ def _key(v: Sourced) -> tuple[str, str | None]:
     return (v.source, v.maker)
 
 
+def _shared(v: Sourced) -> bool:
+    """A recalled or trade figure naming no maker is no maker's formula: every maker shares it."""
+    return v.maker is None and v.source in RESERVED_SOURCES
+
+
 def alternatives(family: Family, names: tuple[str, ...], vcc: float | None, c: float | None) -> list[Alternative]:
     """The family's alternatives for the constants ``names`` at this supply and C."""
     published = {n: list(family.timing.constants.get(n, [])) for n in names}
     competing: list[tuple[str, str | None]] = []
     for values in published.values():
-        keys = list(dict.fromkeys(_key(v) for v in values))
+        keys = list(dict.fromkeys(_key(v) for v in values if not _shared(v)))
         if len(keys) > 1:
             competing += [k for k in keys if k not in competing]
     alts: list[Alternative] = []
     if not competing:
         consts = {n: k for n in names if (k := pick_from(n, published[n], vcc, c)) is not None}
-        makers = {v.maker for vals in published.values() for v in vals if v.maker}
-        sources = [v.source for vals in published.values() for v in vals]
+        makers = {_maker_of(family, v) for vals in published.values() for v in vals} - {None}
+        sources = [v.source for vals in published.values() for v in vals if not _shared(v)] or \
+            [v.source for vals in published.values() for v in vals]
         maker = next(iter(makers)) if len(makers) == 1 else None
         alts.append(Alternative(sources[0] if sources else "", maker, consts, label=maker or (sources[0] if sources else "")))
     else:
@@ -87,8 +93,17 @@ def alternatives(family: Family, names: tuple[str, ...], vcc: float | None, c: f
                 k = pick_from(n, own, vcc, c)
                 if k is not None:
                     consts[n] = k
-            alts.append(Alternative(key[0], key[1], consts, label=key[1] or key[0]))
+            src = family.source(key[0])
+            maker = key[1] or (src.maker if src is not None else None)
+            alts.append(Alternative(key[0], maker, consts, label=maker or key[0]))
     return _attach_tables(family, alts)
+
+
+def _maker_of(family: Family, v: Sourced) -> str | None:
+    if v.maker is not None:
+        return v.maker
+    src = family.source(v.source)
+    return src.maker if src is not None else None
 
 
 def _attach_tables(family: Family, alts: list[Alternative]) -> list[Alternative]:

@@ -101,7 +101,10 @@ def pick_from(name: str, published: list[Sourced], vcc: float | None, c: float |
         a = min(above, key=mid)
         w = (vcc - mid(b)) / (mid(a) - mid(b))
         nominal = b.value + w * (a.value - b.value)
-        return _make(name, [b, a], nominal=nominal, interpolated=True, outside_c_range=outside_c)
+        # Figures published at other supplies are no spread at this one: the interpolated
+        # value stands alone (a range here would jump at the published supplies).
+        k = _make(name, [b, a], nominal=nominal, interpolated=True, outside_c_range=outside_c)
+        return Constant(k.name, nominal, nominal, nominal, k.sources, k.unverified, True, outside_c)
     nearest = min(pool, key=lambda v: abs(mid(v) - vcc))
     return _make(name, [nearest], interpolated=True, outside_c_range=outside_c)
 

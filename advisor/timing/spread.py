@@ -14,8 +14,8 @@ capped at ``MAX_BOUND`` so a width never goes to zero.
 
 Spreads are picked per maker: an entry with ``maker`` (or the maker's source) speaks
 for that maker only; entries without one speak for every maker. Among the entries
-that apply at this supply and C the widest is used; with none for this supply, the
-nearest published supply's.
+that apply at this supply and C the widest is used; between published supplies the
+bounds are interpolated linearly in supply (no jump), beyond them the nearest holds.
 """
 
 from __future__ import annotations
@@ -73,6 +73,15 @@ def part_spread(family: Family, maker: str | None, source: str | None,
     fits = [e for e in pool if e.applies(vcc, c)]
     if not fits and vcc is not None:
         at_c = [e for e in pool if e.applies(None, c)] or pool
+        below = [e for e in at_c if _mid(e, vcc) <= vcc]
+        above = [e for e in at_c if _mid(e, vcc) > vcc]
+        if below and above:  # between published supplies: linear in supply, no jump
+            b = max(below, key=lambda e: _mid(e, vcc))
+            a = min(above, key=lambda e: _mid(e, vcc))
+            w = (vcc - _mid(b, vcc)) / (_mid(a, vcc) - _mid(b, vcc))
+            (bl, bh, bw), (al, ah, aw) = widened(b), widened(a)
+            return PartSpread(bl + w * (al - bl), bh + w * (ah - bh), "typical" if bw or aw else "guaranteed",
+                              tuple(dict.fromkeys((b.source, a.source))), bw or aw)
         best = min(abs(_mid(e, vcc) - vcc) for e in at_c)
         fits = [e for e in at_c if abs(_mid(e, vcc) - vcc) <= best + 1e-9]
     fits = fits or pool
