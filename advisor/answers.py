@@ -123,6 +123,11 @@ class CheckAnswer(_WithFindings):
     assumptions: list[str] = Field(default_factory=list)
     capture: Optional[dict[str, Any]] = None
     facts: dict[str, Any] = Field(default_factory=dict)
+    #: The maker whose constant the nominal uses (None: unknown) and why (catalog/makers.yaml).
+    maker: Optional[str] = None
+    maker_basis: Optional[str] = None
+    #: Each maker's formula in the band, nominal first (advisor.timing.alternatives).
+    makers: list[dict[str, Any]] = Field(default_factory=list)
 
 
 class Candidate(_WithFindings):
@@ -144,6 +149,8 @@ class DesignAnswer(_WithFindings):
     values: Optional[Network] = None
     error: Optional[float] = None
     assumptions: list[str] = Field(default_factory=list)
+    maker: Optional[str] = None
+    maker_basis: Optional[str] = None
 
     def to_frame(self):
         """One row per candidate: its values, nominal time, error and finding count."""
@@ -162,6 +169,8 @@ class Side(_Answer):
     mode: str
     values: Network
     timing: Band
+    maker: Optional[str] = None
+    maker_basis: Optional[str] = None
 
 
 class Step(_Answer):
