@@ -336,6 +336,29 @@ class RulesAnswer(_Answer):
     rules: list[RuleEntry]
 
 
+class BoardPlanItem(_Answer):
+    ref: str
+    cls: Optional[str] = Field(default=None, alias="class")
+
+
+class BoardAnswer(_Answer):
+    """``retime board --json``: the timers traced from a KiCad schematic or netlist and their plan."""
+
+    file: str
+    source: str
+    new_vcc: Optional[float] = None
+    nets: list[dict[str, Any]]
+    timers: list[dict[str, Any]]
+    plan: list[BoardPlanItem]
+    bom_delta: dict[str, Any]
+    unresolved: list[Any] = Field(default_factory=list)
+
+    def to_frame(self):
+        """One row per planned timer: reference, class, and the board's note."""
+        return _frame([{"ref": p.ref, "class": p.cls, **{k: v for k, v in p.to_json().items()
+                                                         if k in ("channel", "label", "note")}} for p in self.plan])
+
+
 #: The model of each command's ``--json`` answer (schemas/<name>.schema.json).
 ANSWERS: dict[str, type[_Answer]] = {
     "check": CheckAnswer,
@@ -348,4 +371,5 @@ ANSWERS: dict[str, type[_Answer]] = {
     "show": FamilySheet,
     "catalog-list": CatalogListAnswer,
     "rules": RulesAnswer,
+    "board": BoardAnswer,
 }

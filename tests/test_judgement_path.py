@@ -140,7 +140,7 @@ def test_fail_on_exits_4_only_when_such_a_finding_is_present(capsys, command):
     assert run(capsys, command, *milder, "--fail-on", "warning")[0] == (4 if "warning" in sev else 0)
 
 
-@pytest.mark.parametrize("command", ["check", "design", "swap", "alternates", "bom"])
+@pytest.mark.parametrize("command", ["check", "design", "swap", "alternates", "bom", "board"])
 def test_fail_on_is_offered_by_every_judging_command(command):
     assert command in _commands_with("--fail-on")
 

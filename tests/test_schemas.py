@@ -3,8 +3,9 @@
 (a) Regenerating the schemas from the models gives the checked-in files.
 (b) Every command example in the README, run with --json, validates against its
     command's schema (jsonschema, draft 2020-12) and through its typed model.
-The files the examples name (parts.csv, capture.csv, shelf.csv) are stand-ins
-written here: a small BOM, the shipped demo capture and a one-line stock list.
+The files the examples name (parts.csv, capture.csv, shelf.csv, logic.kicad_sch, logic.net)
+are stand-ins written here: a small BOM, the shipped demo capture, a one-line stock list,
+the shipped demo schematic and a small netlist export (tests/data/logic.net).
 """
 
 from __future__ import annotations
@@ -58,6 +59,8 @@ def bench(tmp_path, monkeypatch):
     shutil.copy(ROOT / "tests" / "data" / "fail_on_bom.csv", tmp_path / "parts.csv")
     shutil.copy(ROOT / "advisor" / "data" / "demo" / "u3_scope.csv", tmp_path / "capture.csv")
     (tmp_path / "shelf.csv").write_text("Part\nSN74HC221N\n", encoding="utf-8")
+    shutil.copy(ROOT / "advisor" / "data" / "demo" / "bench_pulse_generator.kicad_sch", tmp_path / "logic.kicad_sch")
+    shutil.copy(ROOT / "tests" / "data" / "logic.net", tmp_path / "logic.net")
     monkeypatch.chdir(tmp_path)
     return tmp_path
 

@@ -18,13 +18,14 @@ DESCRIPTION = (
 
 
 def register(p: argparse.ArgumentParser) -> None:
-    from advisor.cli.options import add_new_vcc_option, add_report_option
+    from advisor.cli.options import add_fail_on_option, add_new_vcc_option, add_report_option
 
     p.add_argument("file", metavar="FILE", help="a KiCad schematic (.kicad_sch) or netlist (.net)")
     add_new_vcc_option(p)
     p.add_argument("--supply", metavar="NET=V", action="append", default=[],
                    help="voltage of a supply net whose name does not say it, e.g. --supply VDD=12 (repeatable)")
     add_report_option(p)
+    add_fail_on_option(p)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -49,4 +50,6 @@ def run(args: argparse.Namespace) -> int:
         emit_json(result)
     else:
         sys.stdout.write(render_board(result))
-    return 0
+    from advisor.cli.options import fail_on_status
+
+    return fail_on_status(args, result)

@@ -277,10 +277,10 @@ def add_fail_on_option(p: argparse.ArgumentParser) -> None:
 
 
 def _severities(answer: object):
-    """Every finding severity anywhere in an answer's JSON (``findings`` lists at any depth)."""
+    """Every finding severity anywhere in an answer's JSON (``findings``/``*_findings`` lists at any depth)."""
     if isinstance(answer, dict):
         for key, value in answer.items():
-            if key == "findings" and isinstance(value, list):
+            if (key == "findings" or key.endswith("_findings")) and isinstance(value, list):
                 for f in value:
                     if isinstance(f, dict) and isinstance(f.get("severity"), str):
                         yield f["severity"]
