@@ -17,13 +17,21 @@ from advisor.circuit import Circuit
 from advisor.errors import RetimeError
 from advisor.values import parse_quantity
 
-#: Row statuses (in the order the summary lists them).
-STATUSES = ("reviewed", "check-match", "out-of-scope", "no-part-number", "unreadable")
+#: Row statuses (in the order the summary lists them). ``out-of-scope``: a part number
+#: read as a part that is no timer (a logic gate, a resistor, a capacitor);
+#: ``not-recognised``: nothing in the catalog or the trade's numbering reads it.
+STATUSES = ("reviewed", "check-match", "out-of-scope", "not-recognised", "no-part-number", "unreadable")
 #: Columns the review adds after the input's own columns.
 ADDED_COLUMNS = (
     "retime_status", "retime_family", "retime_score", "retime_best_alternate", "retime_best_class",
     "retime_alternates", "retime_findings", "retime_reason",
+    "retime_part_status", "retime_best_status", "retime_new_r", "retime_new_rb", "retime_new_c",
 )
+#: Headers of a reference-designator column (normalised as advisor.bom.table.norm_header does).
+REF_HEADERS = ("ref", "refs", "refdes", "reference", "references", "designator", "designators", "refdesignator")
+#: A typo match below MAYBE_SCORE but at or above this is still offered for a human to confirm
+#: (never out of scope), unless the part number reads as a part of another kind.
+TYPO_FLOOR = 70.0
 #: A rule-based match (exact or normalised: prefixes and suffixes read by rule) is
 #: taken as the family. A fuzzy (typo) match at or above MAYBE_SCORE is offered for a
 #: human to confirm; below it the line is out of scope. 74HC125 (a buffer) scores
@@ -43,13 +51,27 @@ class RowReview:
     alternates: list[dict] = field(default_factory=list)
     findings: list[dict] = field(default_factory=list)
     reason: str = ""
+    part_status: str = ""  # lifecycle status of the line's own family
+    best_status: str = ""  # lifecycle status of the best alternate
+    new_values: dict = field(default_factory=dict)  # the best alternate's network when it changes values (Ω, F)
+    suggestion: str = ""  # the family a typo match suggests (check-match)
+    ref: str = ""  # the line's reference designator(s), when the BOM has such a column
 
     def added_cells(self) -> list[str]:
-        alts = "; ".join(f"{a['family']} ({a['class']})" for a in self.alternates)
+        from advisor.values import format_code
+
+        alts = "; ".join(f"{a['family']} ({a['class']}, {a.get('status') or 'unknown'})" for a in self.alternates)
         finds = "; ".join(f"{f['severity']}: {f['rule']}" for f in self.findings)
+        nv = self.new_values
+
+        def code(key: str, kind: str) -> str:
+            return format_code(nv[key], kind) if nv.get(key) is not None else ""
+
         return [
             self.status, self.family, "" if self.score is None else f"{self.score:.0f}",
             self.best_alternate, self.best_class, alts, finds, self.reason,
+            self.part_status, self.best_status, code("r", "resistance") or code("ra", "resistance"),
+            code("rb", "resistance"), code("c", "capacitance"),
         ]
 
     def to_json(self) -> dict:
@@ -57,6 +79,9 @@ class RowReview:
             "status": self.status, "family": self.family or None, "score": self.score,
             "best_alternate": self.best_alternate or None, "best_class": self.best_class or None,
             "alternates": self.alternates, "findings": self.findings, "reason": self.reason or None,
+            "part_status": self.part_status or None, "best_status": self.best_status or None,
+            "new_values": dict(self.new_values) or None, "suggestion": self.suggestion or None,
+            "ref": self.ref or None,
         }
 
 
@@ -66,6 +91,7 @@ class BomResult:
     columns: Columns
     reviews: list[RowReview]  # one per data row, in order
     new_vcc: float | None = None
+    stock: dict | None = None  # the stock list used (advisor.substitute.stock.Stock.to_json)
 
     @property
     def summary(self) -> dict[str, int]:
@@ -88,10 +114,23 @@ class BomResult:
             "part_column": header[self.columns.part] if self.columns.part < len(header) else self.columns.part + 1,
             "new_vcc": self.new_vcc,
             "columns": keys + list(ADDED_COLUMNS),
+            "value_columns": self.value_columns,
             "preamble": self.table.rows[: self.table.header_row],
             "rows": rows,
             "summary": self.summary,
+            "stock": self.stock,
         }
+
+    @property
+    def value_columns(self) -> dict[str, str | None]:
+        """The headers the line's own R, RB, C and supply were read from (None: not in this BOM)."""
+        header = self.table.header
+
+        def name(idx):
+            return (header[idx] if idx < len(header) else f"column {idx + 1}") if idx is not None else None
+
+        c = self.columns
+        return {"r": name(c.r), "rb": name(c.rb), "c": name(c.c), "vcc": name(c.vcc)}
 
 
 def _unique_keys(header: list[str]) -> list[str]:
@@ -121,6 +160,8 @@ def review_bom(
     limit: int = 3,
     progress: Callable[[int, int], None] | None = None,
     workers: int | None = None,
+    include_obsolete: bool = False,
+    stock=None,
 ) -> BomResult:
     # progress(done, total) counts the distinct jobs judged (the slow part), not rows.
     """Review every data row of ``table``; never drops a row.
@@ -128,6 +169,8 @@ def review_bom(
     Three passes: read every row (status, family, values) and collect the distinct
     jobs; judge each distinct job once (in ``workers`` processes when there are many
     and the machine has more than one core); then give every row its job's answer.
+    Alternates are ranked as ``retime alternates`` ranks them (obsolete families left
+    out unless ``include_obsolete``; ``stock`` entries first among equals).
     """
     from advisor.partnumber import recognise_many
 
@@ -136,10 +179,26 @@ def review_bom(
     queries = {_cell(table.rows[i], cols.part) for i in data_idx} - {""}
     matches = recognise_many(catalog, sorted(queries))
     read = [_read_row(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
+    ref_col = _ref_column(table)
+    if ref_col is not None:
+        for r in read:
+            r.review.ref = _cell(table.rows[r.review.index], ref_col)
     jobs = list(dict.fromkeys(r.job for r in read if r.job is not None))
+    global _OPTIONS
+    _OPTIONS = {"include_obsolete": include_obsolete, "stock": stock}
     answers = _judge(jobs, catalog, limit, progress, workers)
     reviews = [r.finish(answers) for r in read]
-    return BomResult(table, cols, reviews, new_vcc)
+    for rev in reviews:
+        if rev.family and rev.family.upper() in catalog.families:
+            rev.part_status = catalog.families[rev.family.upper()].status
+    return BomResult(table, cols, reviews, new_vcc, stock.to_json() if stock is not None else None)
+
+
+def _ref_column(table: Table) -> int | None:
+    from advisor.bom.table import norm_header
+
+    names = [norm_header(h) for h in table.header]
+    return next((i for i, n in enumerate(names) if n in REF_HEADERS), None)
 
 
 @dataclass
@@ -156,11 +215,12 @@ class _Read:
         rev = self.review
         reason = base.reason
         if rev.status == "check-match":
-            reason = (f"closest family {rev.family} at score {rev.score:.0f}: confirm the part number"
+            reason = (f"read as {rev.family} only by a likely typo (score {rev.score:.0f}): confirm the part number"
                       + (f"; {reason}" if reason else ""))
         return RowReview(
             rev.index, rev.status, family=rev.family, score=rev.score, best_alternate=base.best_alternate,
             best_class=base.best_class, alternates=base.alternates, findings=base.findings, reason=reason,
+            best_status=base.best_status, new_values=base.new_values, suggestion=rev.suggestion, ref=rev.ref,
         )
 
 
@@ -173,8 +233,12 @@ def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
     if not query:
         return _Read(RowReview(i, "no-part-number", reason="part-number cell is empty"))
     found = matches.get(query) or []
-    if not found or (found[0].how == "fuzzy" and found[0].score < MAYBE_SCORE):
-        return _Read(RowReview(i, "out-of-scope", reason="not a timer or one-shot in the catalog"))
+    other_kind = _other_kind(query)
+    fuzzy = bool(found) and found[0].how == "fuzzy"
+    if not found or (fuzzy and (found[0].score < TYPO_FLOOR or (found[0].score < MAYBE_SCORE and other_kind))):
+        if other_kind:
+            return _Read(RowReview(i, "out-of-scope", reason=f"read as {other_kind}, not a timer or one-shot"))
+        return _Read(RowReview(i, "not-recognised", reason="not recognised: no catalog family or part numbering reads it"))
     best = found[0]
     try:
         r = _opt(row, cols.r, "resistance")
@@ -186,8 +250,30 @@ def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
     fam = catalog.get(best.family)
     supply = row_vcc or vcc or _default_vcc(fam)
     status = "reviewed" if best.how != "fuzzy" else "check-match"
-    return _Read(RowReview(i, status, family=best.family, score=round(best.score, 1)),
+    return _Read(RowReview(i, status, family=best.family, score=round(best.score, 1),
+                           suggestion=best.family if status == "check-match" else ""),
                  (best.family, supply, r, rb, c, new_vcc))
+
+
+#: Part numbers of other kinds, by the trade's numbering (common practice): 74/54-series
+#: and 4000-series logic, and the usual chip resistor and ceramic capacitor series.
+_OTHER_KINDS = (
+    (r"^[A-Z]{0,4}(54|74)[A-Z]{0,5}\d{1,4}[A-Z0-9-]*$", "a 74-series logic part"),
+    (r"^(CD|HEF|MC1|MM|TC)?4\d{3}[A-Z0-9-]*$", "a 4000-series logic part"),
+    (r"^(CRCW|RC\d{4}|ERJ|RMCF|CR\d{4}|MFR|WR\d{2})", "a resistor"),
+    (r"^(GRM|GCM|CL\d\d|C\d{4}[A-Z]|CC\d{4}|VJ\d{4}|ECA|EEU|UVR|T491)", "a capacitor"),
+)
+
+
+def _other_kind(query: str) -> str | None:
+    """What kind of part a number reads as when it is no catalog family (None: unknown)."""
+    import re
+
+    q = query.strip().upper().replace(" ", "")
+    for pattern, kind in _OTHER_KINDS:
+        if re.match(pattern, q):
+            return kind
+    return None
 
 
 def _opt(row: list[str], idx: int | None, kind: str) -> float | None:
@@ -210,6 +296,7 @@ SHORTLIST = 8
 PARALLEL_MIN = 24
 
 _CATALOG = None  # the catalog the worker processes read (inherited when they fork)
+_OPTIONS: dict = {}  # ranking options (include_obsolete, stock), inherited the same way
 
 
 def _judge(jobs: list[tuple], catalog, limit: int, progress, workers: int | None) -> dict:
@@ -257,7 +344,8 @@ def _reference_job(ref: tuple) -> tuple[list[str], RowReview | None, str | None]
 
     family, supply, mode, new_vcc = ref
     try:
-        res = alternates(_CATALOG, family, Circuit(part=family, vcc=supply, mode=mode), new_vcc=new_vcc, limit=0)
+        res = alternates(_CATALOG, family, Circuit(part=family, vcc=supply, mode=mode), new_vcc=new_vcc, limit=0,
+                         **_OPTIONS)
     except RetimeError as exc:
         return [], None, exc.message
     return [c.new.family for c in res.candidates], _answer(res.to_json(), None, new_vcc, SHORTLIST), None
@@ -276,7 +364,7 @@ def _values_job(task: tuple) -> RowReview:
                       ra=r if mode == "astable" else None, rb=rb, c=c)
     try:
         res = alternates(_CATALOG, family, circuit, new_vcc=new_vcc, limit=limit,
-                         families=ranked[: max(SHORTLIST, limit)])
+                         families=ranked[: max(SHORTLIST, limit)], **_OPTIONS)
     except RetimeError as exc:
         return RowReview(-1, "reviewed", reason=exc.message)
     return _answer(res.to_json(), c, new_vcc, limit)
@@ -285,12 +373,13 @@ def _values_job(task: tuple) -> RowReview:
 def _answer_limited(base: RowReview, limit: int) -> RowReview:
     alts = base.alternates[:limit]
     return RowReview(-1, "reviewed", best_alternate=base.best_alternate, best_class=base.best_class,
-                     alternates=alts, findings=base.findings, reason=base.reason)
+                     alternates=alts, findings=base.findings, reason=base.reason, best_status=base.best_status)
 
 
 def _answer(res: dict, c: float | None, new_vcc: float | None, limit: int) -> RowReview:
     cands = res.get("candidates", [])[:limit]
-    alts = [{"family": a["family"], "class": a["class"]} for a in cands]
+    alts = [{"family": a["family"], "class": a["class"], "status": a.get("status"), "rank_reason": a.get("rank_reason"),
+             "in_stock": a.get("in_stock")} for a in cands]
     findings = []
     for a in cands[:1]:
         for f in a.get("findings", []):
@@ -300,8 +389,12 @@ def _answer(res: dict, c: float | None, new_vcc: float | None, limit: int) -> Ro
     if not cands:
         reason = "no alternate in the catalog can do this job" + (f" at {new_vcc:g} V" if new_vcc else "")
     elif c is None:
-        reason = "no C column: classes judged on pins, behaviour and supply with a reference network"
+        reason = "no C value on this line: classes judged on pins, behaviour and supply with a reference network"
+    new_values = {}
+    if cands and c is not None and (cands[0].get("rank") or {}).get("changed"):
+        new_values = {k: cands[0]["values"].get(k) for k in ("r", "ra", "rb", "c") if cands[0]["values"].get(k) is not None}
     return RowReview(
         -1, "reviewed", best_alternate=alts[0]["family"] if alts else "", best_class=alts[0]["class"] if alts else "",
-        alternates=alts, findings=findings[:3], reason=reason,
+        alternates=alts, findings=findings[:3], reason=reason, best_status=(alts[0].get("status") or "") if alts else "",
+        new_values=new_values,
     )

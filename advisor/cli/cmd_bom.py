@@ -21,6 +21,10 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("--new-vcc", metavar="V", help="the supply the board moves to (V)")
     p.add_argument("--vcc", metavar="V", help="supply for lines without a supply column (default 5 V where the part runs there)")
     p.add_argument("--limit", type=int, default=3, help="alternates kept per line (default 3)")
+    p.add_argument("--include-obsolete", action="store_true",
+                   help="also offer obsolete families (after every family still made, marked)")
+    p.add_argument("--stock", metavar="FILE",
+                   help="CSV or XLSX list of part numbers on the shelf or the approved list: those rank first among equals")
     from advisor.cli.options import add_fail_on_option, add_report_option
 
     add_fail_on_option(p)
@@ -38,13 +42,17 @@ def compute(args: argparse.Namespace):
 
     new_vcc = parse_quantity(args.new_vcc, "voltage") if args.new_vcc else None
     vcc = parse_quantity(args.vcc, "voltage") if args.vcc else None
+    from advisor.cli.options import stock_from_args
+
     catalog = catalog_for(args)
+    stock = stock_from_args(args, catalog)
     table = read_table(args.file)
     # Long files get a bar (on a terminal only); it counts the distinct timer lines judged.
     bar = Progress("judging distinct timer lines", min_total=1 if len(table.rows) > 500 else 10**9)
     try:
         res = review_bom(table, catalog, part_column=args.part_column, new_vcc=new_vcc, vcc=vcc,
-                         limit=max(1, args.limit), progress=bar)
+                         limit=max(1, args.limit), progress=bar, include_obsolete=args.include_obsolete,
+                         stock=stock)
     finally:
         bar.close()
     return res
@@ -78,6 +86,11 @@ def _print_text(res, output: str | None) -> None:
     if res.columns.duplicate_part_headers:
         out.write(f" (the header appears {1 + len(res.columns.duplicate_part_headers)} times; the first is used)")
     out.write("\n")
+    used = {k: v for k, v in res.value_columns.items() if v}
+    if used:
+        out.write("  each line's own values from " + ", ".join(f"{k.upper()} {v!r}" for k, v in used.items()) + "\n")
+    else:
+        out.write("  no R/C columns: classes judged on pins, behaviour and supply with a reference network\n")
     shown = 0
     for rev in res.reviews:
         if rev.status not in ("reviewed", "check-match", "unreadable"):
@@ -87,8 +100,15 @@ def _print_text(res, output: str | None) -> None:
         shown += 1
         row = t.rows[rev.index]
         part = row[res.columns.part] if res.columns.part < len(row) else ""
-        alts = ", ".join(f"{a['family']} [{a['class']}]" for a in rev.alternates) or "—"
-        out.write(f"  line {rev.index + 1:>5}  {part:<18} {rev.status:<12} {rev.family:<10} → {alts}\n")
+        alts = ", ".join(f"{a['family']} [{a['class']}, {a.get('status') or 'unknown'}]"
+                         + (" *" if a.get("in_stock") else "") for a in rev.alternates) or "—"
+        ref = f"{rev.ref:<6} " if rev.ref else ""
+        own = f" ({rev.part_status})" if rev.part_status else ""
+        out.write(f"  line {rev.index + 1:>5}  {ref}{part:<18} {rev.status:<12} {rev.family + own:<22} → {alts}\n")
+        if rev.new_values:
+            from advisor.substitute.text import network
+
+            out.write(f"{'':>14}new values for {rev.best_alternate}: {network(rev.new_values)}\n")
         if rev.reason:
             out.write(f"{'':>14}{rev.reason}\n")
     hidden = sum(1 for r in res.reviews if r.status in ("reviewed", "check-match", "unreadable")) - shown

@@ -12,7 +12,7 @@ result does not carry are left out of the report, never invented.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from advisor.findings import SEVERITY_ORDER
@@ -735,11 +735,12 @@ def _bom(result: dict, catalog: Any) -> Report:
     fams = sorted({str(r.get("family")) for r in rows if r.get("family")})
     seen: set[tuple] = set()
     for r in rows:
+        ref = str(r.get("ref") or f"line {r.get('line', '?')}")
         for f in findings_of(r.get("findings") if isinstance(r.get("findings"), list) else []):
-            key = (f.rule, f.part, f.message)
-            if key not in seen:  # a BOM repeats lines: show each finding once
+            key = (ref, f.rule, f.part, f.message)
+            if key not in seen:  # a BOM repeats lines: show each finding once per line
                 seen.add(key)
-                rep.findings.append(f)
+                rep.findings.append(replace(f, message=f"{ref}: {f.message}"))
     rep.findings.sort(key=lambda f: SEVERITY_ORDER.get(f.severity, 9))
     if _num(result.get("new_vcc")):
         rep.facts.append(quantity("new supply", result["new_vcc"], "V", "new_vcc"))
