@@ -26,7 +26,9 @@ def register(p: argparse.ArgumentParser) -> None:
     t.add_argument("--duty", metavar="D", help="wanted duty (high fraction), e.g. 0.6 or 60%%")
     t.add_argument("--range", metavar="TMIN..TMAX", help="adjustment window: a fixed resistor plus a trimmer must cover it")
     add_circuit_options(p, targets=False)
-    p.add_argument("--series", default="E24", help="resistor series (E12, E24, E48, E96, E192; default E24)")
+    from advisor.cli.options import add_series_options
+
+    add_series_options(p)
     add_fail_on_option(p)
     p.add_argument("--new-c", action="store_true", help="do not try to keep the existing capacitor")
     p.add_argument("--limit", type=int, default=5, help="candidates shown (default 5)")
@@ -34,14 +36,15 @@ def register(p: argparse.ArgumentParser) -> None:
 
 def compute(args: argparse.Namespace):
     """The engine's answer for these arguments (the Python API calls it too)."""
-    from advisor.cli.options import circuit_from_args
+    from advisor.cli.options import circuit_from_args, series_from_args, with_series
     from advisor.cli.output import catalog_for
     from advisor.timing import design
 
     catalog = catalog_for(args)
     family = catalog.resolve(args.part)
-    circuit = circuit_from_args(args, family.id)
-    result = design(family, circuit, series=args.series, keep_c=not args.new_c, limit=max(1, args.limit))
+    series, c_series = series_from_args(args)
+    circuit = with_series(args, circuit_from_args(args, family.id))
+    result = design(family, circuit, series=series, c_series=c_series, keep_c=not args.new_c, limit=max(1, args.limit))
     return result
 
 
@@ -82,14 +85,21 @@ def render_text(j: dict) -> str:
         head += f", duty {_pct(tgt['duty'])}"
     if tgt.get("range"):
         head += f", window {_t(tgt['range']['min'])} … {_t(tgt['range']['max'])}"
-    lines = [head + f"  ({j['series']} resistors, E6 capacitors)"]
-    key = "width" if j["mode"] == "mono" else ("period" if tgt["kind"] != "width" else "high")
+    lines = [head + f"  ({j['series']} resistors, {j.get('c_series') or 'E6'} capacitors)"]
+    # The error is signed in the quantity the user gave (--freq: the frequency's error).
+    key = ("width" if j["mode"] == "mono" else "frequency" if tgt["kind"] == "freq"
+           else "period" if tgt["kind"] == "period" else "high")
+
+    def show(v):
+        return format_eng(v, "Hz", 4) if key == "frequency" else _t(v)
+
     for i, c in enumerate(j["candidates"], 1):
-        n, lo, hi = (c["timing"][k][key] for k in ("nominal", "min", "max"))
-        line = f"  {i}. {_network(c['values']):<34} {key} {_t(n)} ({c['error'] * 100:+.2f} %), band {_t(lo)} … {_t(hi)}"
+        n = c["timing"]["nominal"][key]
+        lo, hi = sorted((c["timing"]["min"][key], c["timing"]["max"][key]))
+        line = f"  {i}. {_network(c['values']):<34} {key} {show(n)} ({c['error'] * 100:+.2f} %), band {show(lo)} … {show(hi)}"
         if c.get("adjust"):
             a = c["adjust"]
-            line += f"; trimmer spans {_t(a['min'][key])} … {_t(a['max'][key])}"
+            line += f"; trimmer spans {show(a['min'][key])} … {show(a['max'][key])}"
             if c.get("setting") is not None:
                 line += f", target at {_pct(c['setting'])}"
         if c.get("duty_error") is not None:
@@ -102,8 +112,13 @@ def render_text(j: dict) -> str:
     tol = j.get("tolerances") or {}
     if tol:
         d = tol.get("defaulted", {})
-        lines.append(f"  bands use R ±{_pct(tol['r_tol'])}{' (assumed)' if d.get('r_tol') else ''}, "
-                     f"C ±{_pct(tol['c_tol'])}{' (assumed)' if d.get('c_tol') else ''} and the makers' constants")
+        def basis(kind):
+            if not d.get(f"{kind}_tol"):
+                return ""
+            return f" ({tol[kind + '_series']} tolerance)" if tol.get(f"{kind}_series") else " (assumed)"
+
+        lines.append(f"  bands use R ±{_pct(tol['r_tol'])}{basis('r')}, "
+                     f"C ±{_pct(tol['c_tol'])}{basis('c')} and the makers' constants")
     if j["findings"]:
         lines.append("findings (best candidate)")
         lines += findings_lines(j["findings"])

@@ -32,7 +32,10 @@ def network_values(model: Model) -> dict:
 
 
 def tolerances(circuit: Circuit) -> dict:
-    return {"r_tol": circuit.r_tolerance, "c_tol": circuit.c_tolerance, "defaulted": circuit.tolerances_defaulted}
+    out = {"r_tol": circuit.r_tolerance, "c_tol": circuit.c_tolerance, "defaulted": circuit.tolerances_defaulted}
+    # the series whose tolerance stands in for a tolerance not given (E96: 1 %), when one was named
+    out.update({k: getattr(circuit, k) for k in ("r_series", "c_series") if getattr(circuit, k)})
+    return out
 
 
 def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, seed: int | None = 1) -> TimingResult:

@@ -10,8 +10,10 @@ fixed part never goes below the part's minimum timing resistance, and the ranges
 are chosen so the travel covers the window on any board within tolerance when
 the limits allow it.
 
-Capacitors are taken from E6 (common practice: film and C0G parts are stocked in
-E6/E12); variable resistors from the 1-2-5 sequence trimmers are sold in (common
+Capacitors are taken from E6 unless another series is named (common practice: film
+and C0G parts are stocked in E6/E12). A 555 astable's RA/RB pair is searched over
+every RA of the series with the two RB values around the one its period needs
+(:func:`astable_pairs`), so the answer is as close as the series allows; variable resistors from the 1-2-5 sequence trimmers are sold in (common
 practice).
 """
 
@@ -85,7 +87,7 @@ def _solve(evaluate, t: float) -> float:
 
 def design(
     family: Family, circuit: Circuit, *, series: str = "E24", keep_c: bool = True, limit: int = 5,
-    good_enough: float | None = None,
+    good_enough: float | None = None, c_series: str = "E6",
 ) -> DesignResult:
     """Candidates (best first) for ``circuit.target`` on ``family``; see the module docstring.
 
@@ -95,7 +97,8 @@ def design(
     target = circuit.target
     if target is None:
         raise InputError("design needs a target: --width, --period or --freq (or --range)")
-    eseries.mantissas(series)  # validates the series name
+    series = eseries.series_name(series, "--series")
+    c_series = eseries.series_name(c_series, "--c-series")
     if circuit.mode is None and target.kind in ("period", "freq") and family.function in ("timer-555", "monostable-astable"):
         circuit = circuit.with_(mode="astable")
     mode = resolve_mode(family, circuit)
@@ -114,6 +117,9 @@ def design(
 
     cands: list[Candidate] = []
     kept = circuit.c if keep_c and circuit.c is not None else None
+    # The resistors already on the board: with the existing C, the best pair keeping one of them
+    # is offered too (a swap's fewest-changes answer changes one part when it can).
+    present = {k: getattr(circuit, k) for k in ("ra", "rb") if getattr(circuit, k) is not None}
 
     def c_choices():
         if kept is not None:
@@ -121,12 +127,13 @@ def design(
             if good_enough is not None and any(
                     cd.kept_c and abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0) <= good_enough for cd in cands):
                 return  # the existing capacitor is good enough: no other capacitor is searched
-        for c in _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555):
+        for c in _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555, c_series):
             if kept is None or abs(c / kept - 1) > 1e-9:
                 yield c
 
     for c in c_choices():
-        nets = _networks(family, base.with_(c=c), q, t_goal, window, series, r_lo, r_hi, astable555, variable)
+        nets = _networks(family, base.with_(c=c), q, t_goal, window, series, r_lo, r_hi, astable555, variable,
+                         present=present if c == kept else None)
         if not nets and c == kept:
             assumptions.append(f"the existing {format_eng(kept, 'F')} needs a resistance outside "
                                f"{format_eng(r_lo, 'Ω')}..{format_eng(r_hi, 'Ω')}: other capacitors proposed")
@@ -161,19 +168,19 @@ def design(
     if window is not None:
         tjson["range"] = {"min": window[0], "max": window[1]}
     assumptions += [a for a in probe.assumptions if a not in assumptions and "part number names" in a]
-    return DesignResult(family.id, mode, tjson, eseries._name(series), unique[:limit], findings, assumptions,
-                        tolerances(circuit), maker=probe.maker, maker_basis=probe.maker_basis)
+    return DesignResult(family.id, mode, tjson, series, unique[:limit], findings, assumptions,
+                        tolerances(circuit), maker=probe.maker, maker_basis=probe.maker_basis, c_series=c_series)
 
 
 def _covers(cd: Candidate, window) -> bool:
     return window is None or cd.setting is not None
 
 
-def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555) -> list[float]:
-    """E6 capacitors whose ideal resistance lies inside the limits, nearest R_COMFORT first."""
+def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555, c_series: str = "E6") -> list[float]:
+    """Capacitors of ``c_series`` whose ideal resistance lies inside the limits, nearest R_COMFORT first."""
     out = []
     centre = min(max(R_COMFORT, r_lo * 3), r_hi / 3)
-    for c in eseries.values_between("E6", c_lo, c_hi):
+    for c in eseries.values_between(c_series, c_lo, c_hi):
         model = build(family, base.with_(c=c, r=1e3, ra=1e3, rb=1e3), need_network=False)
         if astable555:
             r = _solve(lambda x: model.times(model.at(ra=x / 10, rb=x))[q], t_goal)
@@ -185,11 +192,11 @@ def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555) -
     return [c for _, c in out[:8]]
 
 
-def _networks(family, circuit, q, t_goal, window, series, r_lo, r_hi, astable555, variable) -> list[dict]:
+def _networks(family, circuit, q, t_goal, window, series, r_lo, r_hi, astable555, variable, present=None) -> list[dict]:
     """Resistor networks (dicts of Circuit fields) for one capacitor."""
     model = build(family, circuit.with_(r=1e3, ra=1e3, rb=1e3, pot=None, pot_setting=None), need_network=False)
     if astable555:
-        return _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable)
+        return _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable, present)
     ev = lambda x: model.times(model.at(r=x, rp=0.0))[q]  # noqa: E731
     if not variable:
         ideal = _solve(ev, t_goal)
@@ -234,7 +241,7 @@ def _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, field_name
     return out
 
 
-def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable) -> list[dict]:
+def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable, present=None) -> list[dict]:
     """RA/RB pairs for a 555 astable: RA from the duty (or about RB/10), RB from the period."""
     c = model.params["c"]
     u, l = model.params["upper"], model.params["lower"]
@@ -256,18 +263,60 @@ def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, var
         ra = rb / 10
     ra = max(ra, r_lo)
     if not variable:
-        nets = []
-        ras = {eseries.next_down(series, ra * 1.0000001), eseries.next_up(series, ra * 0.9999999)}
-        for ra_s in sorted(v for v in ras if v >= r_lo * (1 - 1e-9)):
-            rb_ideal = _solve(lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q], t_goal)
-            if rb_ideal <= 0 or ra_s + rb_ideal > r_hi:
-                continue
-            rbs = {eseries.next_down(series, rb_ideal * 1.0000001), eseries.next_up(series, rb_ideal * 0.9999999)}
-            nets += [{"ra": ra_s, "rb": rb_s} for rb_s in sorted(rbs)]
-        return nets
+        return astable_pairs(model, q, t_goal, duty, series, r_lo, r_hi, present=present)
     ra_s = max(eseries.nearest(series, ra), eseries.next_up(series, r_lo * 0.9999999))
     ev = lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q]  # noqa: E731
     return _variable(ev, model.with_params(ra=ra_s), circuit, t_goal, window, series, 1.0, r_hi - ra_s, "rb", {"ra": ra_s})
+
+
+#: Without a duty target, an astable pair keeps the duty between these (RA ≤ RB: the
+#: classic RA-small network, about 52 % at RA = RB/10; common practice).
+FREE_DUTY = (0.5, 2.0 / 3.0)
+#: Pairs kept per capacitor from the exhaustive search (best first).
+PAIRS_KEPT = 4
+
+
+def astable_pairs(model, q: str, t_goal: float, duty: float | None, series: str, r_lo: float, r_hi: float,
+                  keep: int = PAIRS_KEPT, present: dict | None = None) -> list[dict]:
+    """Every RA of the series inside the limits, each with the two series RB values around
+    the RB its period needs: the best ``keep`` pairs by the error on ``q`` (plus half the
+    duty error when a duty is wanted). The law is monotone in RB for a fixed RA, so the
+    best RB for each RA is one of those two neighbours: the search is exhaustive over the
+    series' pairs at a cost of a few law evaluations per RA. ``present`` (``{"ra", "rb"}``,
+    Ω) adds the best pair keeping the board's RA, and the best keeping its RB."""
+    scored = []
+    ras = eseries.values_between(series, r_lo, r_hi)
+    if present and present.get("ra"):
+        ras = sorted(set(ras) | {present["ra"]})
+    for ra_s in ras:
+        rb_ideal = _solve(lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q], t_goal)
+        if not math.isfinite(rb_ideal) or rb_ideal <= 0 or ra_s + rb_ideal > r_hi:
+            continue
+        for rb_s in {eseries.next_down(series, rb_ideal * 1.0000001), eseries.next_up(series, rb_ideal * 0.9999999)}:
+            if ra_s + rb_s > r_hi * (1 + 1e-9):
+                continue
+            t = model.times(model.at(ra=ra_s, rb=rb_s, rp=0.0))
+            err = abs(t[q] / t_goal - 1.0)
+            if duty is not None:
+                score = (err + 0.5 * abs(t["duty"] - duty), 0.0)
+            else:
+                if not FREE_DUTY[0] <= t["duty"] <= FREE_DUTY[1] + 1e-9:
+                    continue
+                score = (err, abs(t["duty"] - 0.524))
+            scored.append((score, ra_s, rb_s))
+    scored.sort()
+    out = [(ra, rb) for _, ra, rb in scored[:keep]]
+    if present and present.get("rb"):  # RB kept: solve RA instead
+        rb_p = present["rb"]
+        ra_ideal = _solve(lambda x: model.times(model.at(ra=x, rb=rb_p, rp=0.0))[q], t_goal)
+        if math.isfinite(ra_ideal) and ra_ideal > 0:
+            for ra_s in {eseries.next_down(series, ra_ideal * 1.0000001), eseries.next_up(series, ra_ideal * 0.9999999)}:
+                if r_lo * (1 - 1e-9) <= ra_s and ra_s + rb_p <= r_hi * (1 + 1e-9):
+                    out.append((ra_s, rb_p))
+    if present and present.get("ra"):
+        keeps = [(ra, rb) for _, ra, rb in scored if abs(ra - present["ra"]) <= 1e-9 * ra]
+        out += keeps[:1]
+    return [{"ra": ra, "rb": rb} for ra, rb in dict.fromkeys(out)]
 
 
 def _candidate(family: Family, circuit: Circuit, target: Target, kept_c: bool) -> Candidate:

@@ -108,6 +108,7 @@ class DesignResult:
     tolerances: dict = field(default_factory=dict)
     maker: str | None = None
     maker_basis: str | None = None
+    c_series: str = "E6"  # capacitor series searched when C may change
 
     @property
     def best(self) -> Candidate | None:
@@ -122,6 +123,7 @@ class DesignResult:
             "mode": self.mode,
             "target": self.target,
             "series": self.series,
+            "c_series": self.c_series,
             "candidates": [c.to_json() for c in self.candidates],
             "timing": {k: dict(v) for k, v in best.timing.items()} if best else None,
             "values": dict(best.values) if best else None,
