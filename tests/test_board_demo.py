@@ -151,3 +151,50 @@ def test_cli_text_json_and_reports(tmp_path):
     j = json.loads(js.stdout)
     assert {"nets", "timers", "plan", "bom_delta", "unresolved"} <= set(j)
     assert (tmp_path / "b.html").read_text(encoding="utf-8").startswith("<!doctype html>")
+
+
+def test_supply_for_a_net_that_is_not_there_is_listed(catalog):
+    j = plan_board(catalog, read_board(DEMO), new_vcc=5.0, supplies={"VDD_X": 12.0}).to_json()
+    assert any("--supply VDD_X" in u["reason"] for u in j["unresolved"])
+
+
+def test_retime_demo_runs_the_board_too():
+    env = dict(os.environ, RETIME_CACHE=os.environ.get("RETIME_CACHE", "/tmp/retime-cache-tests"))
+    out = subprocess.run([sys.executable, "-m", "advisor", "demo", "--json"], capture_output=True, text=True,
+                         env=env, timeout=120)
+    assert out.returncode == 0, out.stderr
+    board = json.loads(out.stdout)["board"]
+    assert [t["ref"] for t in board["timers"]] == ["U3", "U5", "U7", "U9"] and board["new_vcc"] == 5.0
+
+
+@pytest.mark.external
+def test_demo_board_embeds_the_open_library_symbols_unchanged():
+    """Every embedded library symbol has the installed library's pins (number, name, type, unit)."""
+    from advisor.board import sexpr
+    from advisor.board.geometry import read_lib_symbols
+    from tests.support.external import kicad_symbols_dir
+    from tests.support.kicad import symbol_pins
+
+    lib_dir = kicad_symbols_dir()
+    embedded = read_lib_symbols(sexpr.loads(DEMO.read_text(encoding="utf-8"), DEMO.name))
+    assert {"Timer:NE555P", "74xx:74LS121", "74xx:74LS123", "4xxx:4538", "Device:R"} <= set(embedded)
+    for lib_id, sym in embedded.items():
+        lib, name = lib_id.split(":", 1)
+        want = symbol_pins(lib_dir / f"{lib}.kicad_sym", name)
+        assert want is not None, lib_id
+        got = sorted((p.number, p.name, p.kind, p.unit) for p in sym.pins)
+        assert got == sorted((p.number, p.name, p.kind, p.unit) for p in want), lib_id
+
+
+@pytest.mark.external
+def test_shipped_demo_board_is_the_generator_output(tmp_path):
+    """tools/make_demo_board.py rebuilds the shipped file byte for byte from the installed library."""
+    from tests.support.external import kicad_symbols_dir
+
+    kicad_symbols_dir()
+    sys.path.insert(0, str(DEMO.parents[3] / "tools"))
+    try:
+        import make_demo_board
+    finally:
+        sys.path.pop(0)
+    assert make_demo_board.build() == DEMO.read_text(encoding="utf-8")

@@ -248,7 +248,8 @@ def resolve(board: Board, instances) -> None:
     board._pin_net = None
 
 
-def _natural(text: str) -> tuple:
-    import re
+_DIGITS = re.compile(r"(\d+)")
 
-    return tuple(int(t) if t.isdigit() else t for t in re.split(r"(\d+)", text))
+
+def _natural(text: str) -> tuple:
+    return tuple(int(t) if t.isdigit() else t for t in _DIGITS.split(text))

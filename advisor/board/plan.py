@@ -120,6 +120,10 @@ def plan_board(catalog, board: Board, *, new_vcc: float | None = None, supplies:
             if not ch.unused:
                 channels.append(ch)
     _unknown_ics(board, rec, unresolved)
+    names = {n.name.lower().lstrip("/") for n in board.nets} | {n.name.lower().rsplit("/", 1)[-1] for n in board.nets}
+    for net in supplies or {}:
+        if net.lower().lstrip("/") not in names:
+            unresolved.append(Problem(f"--supply {net}: no net of that name on the board", Where(board.file), "unresolved"))
     moved = {c.vcc_net for c in channels if c.vcc_net} if new_vcc is not None else set()
     plans: list[TimerPlan] = []
     cache: dict = {}

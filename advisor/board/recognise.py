@@ -74,7 +74,8 @@ def recognise_timer(catalog, part: Part):
     return None
 
 
-def passive_kind(part: Part) -> str | None:
+def passive_by_symbol(part: Part) -> str | None:
+    """R, RV, POT or C from the library symbol's name (the open library's Device:R*, C*, R_Potentiometer*)."""
     name = _symbol_name(part.lib_id).upper()
     npins = len(part.pins)
     if "POT" in name or "TRIM" in name:
@@ -83,6 +84,14 @@ def passive_kind(part: Part) -> str | None:
         return "RV" if "VARIABLE" in name else "R"
     if re.match(r"^C(P)?(_|$)", name) or name.startswith("C_POLARIZED"):
         return "C"
+    return None
+
+
+def passive_kind(part: Part) -> str | None:
+    by_symbol = passive_by_symbol(part)
+    if by_symbol is not None:
+        return by_symbol
+    npins = len(part.pins)
     pre = _prefix(part.ref)
     if pre in ("RV", "VR", "POT", "TR") and npins >= 3:
         return "POT"
@@ -119,7 +128,8 @@ def _package(family, part: Part):
 def recognise_board(catalog, board: Board) -> Recognised:
     out = Recognised()
     for ref, part in board.parts.items():
-        hit = recognise_timer(catalog, part)
+        # a resistor or capacitor symbol is never a timer: skip the part-number search for it
+        hit = None if passive_by_symbol(part) is not None else recognise_timer(catalog, part)
         if hit is not None:
             fam, matched = hit
             out.timers.append(Timer(part, fam, matched, _package(fam, part)))
