@@ -22,7 +22,10 @@ Technology = Literal[
     "bipolar", "cmos-555", "ttl", "ls", "als", "hc", "hct", "ac", "ahc", "ahct", "vhc", "lv", "lvc",
     "cmos-4000",
 ]
-SourceKind = Literal["datasheet", "standard", "textbook", "app-note", "measurement", "forum", "memory"]
+SourceKind = Literal[
+    "datasheet", "standard", "textbook", "app-note", "product-page", "distributor-page", "measurement", "forum",
+    "memory",
+]
 Retrigger = Literal["yes", "no", "selectable"]
 Edge = Literal["rising", "falling", "level-low", "level-high"]
 Level = Literal["low", "high"]
