@@ -61,6 +61,10 @@ class Cases(_Frozen):
 
     fire: list[dict[str, Scalar]] = Field(min_length=1)
     no_fire: list[dict[str, Scalar]] = Field(min_length=1)
+    #: Command lines (as typed after ``retime``) whose real circuit must fire the rule: they
+    #: go through the engine and build_context, not a hand-written context
+    #: (tests/test_rules_cases.py runs them).
+    run: list[str] = Field(default_factory=list)
 
 
 class Rework(_Frozen):
