@@ -11,6 +11,7 @@ from dataclasses import asdict, dataclass, field, replace
 from typing import Literal
 
 from advisor.errors import InputError
+from advisor.values import check_plausible
 
 Mode = Literal["mono", "astable"]
 Measured = Literal["width", "high", "low", "period"]
@@ -90,8 +91,12 @@ class Circuit:
     #: when it names none. ``maker_basis`` says how: "part-number prefix" or "--maker".
     makers: tuple[str, ...] = ()
     maker_basis: str | None = None
+    #: How unusual input forms were read (an old MFD marking, a capacitor code) and the
+    #: marks kept after values (tolerance letter, rating): shown in every answer's assumptions.
+    notes: tuple[str, ...] = field(default=(), compare=False)
 
     def __post_init__(self) -> None:
+        _check_quantities(self)
         if self.pot_setting is not None and not 0.0 <= self.pot_setting <= 1.0:
             raise InputError(
                 f"pot setting {self.pot_setting!r} is outside 0..1", got=self.pot_setting,
@@ -134,3 +139,32 @@ class Circuit:
         d["c_tol"] = self.c_tolerance
         d["tolerances_defaulted"] = self.tolerances_defaulted
         return d
+
+
+#: The quantities of a circuit and their kinds (advisor.values.KINDS), for the plausibility check.
+_QUANTITIES = (
+    ("vcc", "voltage", "supply (vcc)"), ("r", "resistance", "timing resistor (r)"), ("ra", "resistance", "RA"),
+    ("rb", "resistance", "RB"), ("pot", "resistance", "variable resistor (pot)"),
+    ("c", "capacitance", "timing capacitor (c)"), ("cont", "voltage", "control voltage (cont)"),
+)
+
+
+def _check_quantities(circuit: Circuit) -> None:
+    """Every value finite, of the right sign and plausible (advisor.values.Limits), whoever built it."""
+    for name, kind, label in _QUANTITIES:
+        value = getattr(circuit, name)
+        if value is not None:
+            check_plausible(value, kind, label)
+    trig = circuit.trigger
+    if trig.period is not None:
+        check_plausible(trig.period, "time", "trigger period")
+    if trig.high is not None:
+        check_plausible(trig.high, "voltage", "trigger high level")
+    if circuit.measured is not None:
+        check_plausible(circuit.measured.value, "time", f"measured {circuit.measured.quantity}")
+    if circuit.target is not None:
+        tgt = circuit.target
+        check_plausible(tgt.value, "frequency" if tgt.kind == "freq" else "time", f"target {tgt.kind}")
+        if tgt.range is not None:
+            for end in tgt.range:
+                check_plausible(end, "time", "target range")

@@ -15,7 +15,7 @@ from typing import Callable
 from advisor.bom.table import Columns, Table, locate_columns
 from advisor.circuit import Circuit
 from advisor.errors import RetimeError
-from advisor.values import parse_quantity
+from advisor.values import read_value
 
 #: Row statuses (in the order the summary lists them). ``out-of-scope``: a part number
 #: read as a part that is no timer (a logic gate, a resistor, a capacitor);
@@ -178,7 +178,7 @@ def review_bom(
     data_idx = [i for i in range(table.header_row + 1, len(table.rows))]
     queries = {_cell(table.rows[i], cols.part) for i in data_idx} - {""}
     matches = recognise_many(catalog, sorted(queries))
-    read = [_read_row(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
+    read = [_guarded_read(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
     ref_col = _ref_column(table)
     if ref_col is not None:
         for r in read:
@@ -213,7 +213,7 @@ class _Read:
             return self.review
         base = answers[self.job]
         rev = self.review
-        reason = base.reason
+        reason = "; ".join(x for x in (rev.reason, base.reason) if x)  # how the cells were read, then the answer
         if rev.status == "check-match":
             reason = (f"read as {rev.family} only by a likely typo (score {rev.score:.0f}): confirm the part number"
                       + (f"; {reason}" if reason else ""))
@@ -222,6 +222,24 @@ class _Read:
             best_class=base.best_class, alternates=base.alternates, findings=base.findings, reason=reason,
             best_status=base.best_status, new_values=base.new_values, suggestion=rev.suggestion, ref=rev.ref,
         )
+
+
+def _unexpected(exc: Exception) -> str:
+    """The reason given for a line that hit a bug: the line comes back, the others go on."""
+    import os
+
+    if os.environ.get("RETIME_DEBUG"):
+        raise exc
+    return f"could not be judged: internal problem {type(exc).__name__}: {exc} (please report it)"
+
+
+def _guarded_read(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
+    try:
+        return _read_row(i, row, cols, catalog, matches, new_vcc, vcc)
+    except RetimeError as exc:
+        return _Read(RowReview(i, "unreadable", reason=exc.message))
+    except Exception as exc:  # a bug must cost this line only
+        return _Read(RowReview(i, "unreadable", reason=_unexpected(exc)))
 
 
 def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
@@ -240,18 +258,19 @@ def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
             return _Read(RowReview(i, "out-of-scope", reason=f"read as {other_kind}, not a timer or one-shot"))
         return _Read(RowReview(i, "not-recognised", reason="not recognised: no catalog family or part numbering reads it"))
     best = found[0]
+    notes: list[str] = []
     try:
-        r = _opt(row, cols.r, "resistance")
-        rb = _opt(row, cols.rb, "resistance")
-        c = _opt(row, cols.c, "capacitance")
-        row_vcc = _opt(row, cols.vcc, "voltage")
+        r = _opt(row, cols.r, "resistance", notes, "R")
+        rb = _opt(row, cols.rb, "resistance", notes, "RB")
+        c = _opt(row, cols.c, "capacitance", notes, "C")
+        row_vcc = _opt(row, cols.vcc, "voltage", notes, "supply")
     except RetimeError as exc:
         return _Read(RowReview(i, "unreadable", family=best.family, score=best.score, reason=exc.message))
     fam = catalog.get(best.family)
     supply = row_vcc or vcc or _default_vcc(fam)
     status = "reviewed" if best.how != "fuzzy" else "check-match"
     return _Read(RowReview(i, status, family=best.family, score=round(best.score, 1),
-                           suggestion=best.family if status == "check-match" else ""),
+                           suggestion=best.family if status == "check-match" else "", reason="; ".join(notes)),
                  (best.family, supply, r, rb, c, new_vcc))
 
 
@@ -276,9 +295,14 @@ def _other_kind(query: str) -> str | None:
     return None
 
 
-def _opt(row: list[str], idx: int | None, kind: str) -> float | None:
+def _opt(row: list[str], idx: int | None, kind: str, notes: list[str], label: str) -> float | None:
+    """A cell read as parts print values (advisor.values.read_value); how it was read goes to ``notes``."""
     text = _cell(row, idx)
-    return parse_quantity(text, kind) if text else None
+    if not text:
+        return None
+    reading = read_value(text, kind)
+    notes.extend(reading.remarks(label))
+    return reading.value
 
 
 def _default_vcc(fam) -> float:
@@ -348,6 +372,8 @@ def _reference_job(ref: tuple) -> tuple[list[str], RowReview | None, str | None]
                          **_OPTIONS)
     except RetimeError as exc:
         return [], None, exc.message
+    except Exception as exc:  # a bug must cost these lines only
+        return [], None, _unexpected(exc)
     return [c.new.family for c in res.candidates], _answer(res.to_json(), None, new_vcc, SHORTLIST), None
 
 
@@ -360,14 +386,16 @@ def _values_job(task: tuple) -> RowReview:
     if c is None:
         return _answer_limited(no_values, limit)
     mode = "astable" if rb is not None else None
-    circuit = Circuit(part=family, vcc=supply, mode=mode, r=r if mode is None else None,
-                      ra=r if mode == "astable" else None, rb=rb, c=c)
     try:
+        circuit = Circuit(part=family, vcc=supply, mode=mode, r=r if mode is None else None,
+                          ra=r if mode == "astable" else None, rb=rb, c=c)
         res = alternates(_CATALOG, family, circuit, new_vcc=new_vcc, limit=limit,
                          families=ranked[: max(SHORTLIST, limit)], **_OPTIONS)
+        return _answer(res.to_json(), c, new_vcc, limit)
     except RetimeError as exc:
         return RowReview(-1, "reviewed", reason=exc.message)
-    return _answer(res.to_json(), c, new_vcc, limit)
+    except Exception as exc:  # a bug must cost these lines only
+        return RowReview(-1, "reviewed", reason=_unexpected(exc))
 
 
 def _answer_limited(base: RowReview, limit: int) -> RowReview:

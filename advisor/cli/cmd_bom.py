@@ -37,13 +37,11 @@ def compute(args: argparse.Namespace):
     from advisor.bom.progress import Progress
     from advisor.bom.review import review_bom
     from advisor.bom.table import read_table
+    from advisor.cli.options import quantity_from_args, stock_from_args
     from advisor.cli.output import catalog_for
-    from advisor.values import parse_quantity
 
-    new_vcc = parse_quantity(args.new_vcc, "voltage") if args.new_vcc else None
-    vcc = parse_quantity(args.vcc, "voltage") if args.vcc else None
-    from advisor.cli.options import stock_from_args
-
+    new_vcc = quantity_from_args(args, "--new-vcc", "voltage")
+    vcc = quantity_from_args(args, "--vcc", "voltage")
     catalog = catalog_for(args)
     stock = stock_from_args(args, catalog)
     table = read_table(args.file)

@@ -59,13 +59,18 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def main(argv: list[str] | None = None) -> int:
+    from advisor.cli.terminal import guard_streams
+
+    guard_streams()
     parser = build_parser()
     args = parser.parse_args(argv)
     if not getattr(args, "command", None):
         parser.print_help()
         return 0
     try:
-        return int(args._run(args) or 0)
+        code = int(args._run(args) or 0)
+        sys.stdout.flush()  # a full disk or a closed pipe shows here, not at exit
+        return code
     except RetimeError as exc:
         sys.stderr.write(f"retime: error: {exc.render()}\n")
         return exc.exit_code
@@ -73,7 +78,13 @@ def main(argv: list[str] | None = None) -> int:
         sys.stderr.write("retime: interrupted\n")
         return 130
     except BrokenPipeError:
+        _silence_stdout()
         return 0
+    except OSError as exc:  # read-only folder, full disk, missing folder: bad input (exit 2) with the path
+        sys.stderr.write(f"retime: error: {os_error_message(exc)}\n")
+        if exc.filename is None:
+            _silence_stdout()
+        return 2
     except Exception as exc:  # a bug: one line for users, the traceback on request
         if os.environ.get("RETIME_DEBUG"):
             raise
@@ -82,6 +93,25 @@ def main(argv: list[str] | None = None) -> int:
             "(please report it; set RETIME_DEBUG=1 for details)\n"
         )
         return 3
+
+
+def os_error_message(exc: OSError) -> str:
+    """One line for an operating-system error: what failed, on which path, and why."""
+    why = exc.strerror or type(exc).__name__
+    if exc.filename is None:
+        return f"cannot write the output: {why}"
+    path = exc.filename if exc.filename2 is None else f"{exc.filename} -> {exc.filename2}"
+    return f"{path}: {why}"
+
+
+def _silence_stdout() -> None:
+    """Point stdout at the null device so the exit-time flush of unwritable output stays quiet
+    (the Python documentation's advice for SIGPIPE, used for a full disk too)."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError, AttributeError):
+        pass  # not a real file (tests capture stdout): nothing to silence
 
 
 if __name__ == "__main__":  # pragma: no cover

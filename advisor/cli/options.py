@@ -10,7 +10,7 @@ import argparse
 
 from advisor.circuit import Circuit, Measurement, Target, Trigger
 from advisor.errors import ValueParseError
-from advisor.values import parse_quantity, parse_range
+from advisor.values import parse_range, read_value
 
 _FLAGS: list[tuple[str, str, str]] = [
     # flag, quantity kind, help
@@ -76,19 +76,29 @@ def _measured_from_capture(args: argparse.Namespace, mode: str | None) -> Measur
                                output_channel=getattr(args, "output_channel", None))
 
 
-def _get(args: argparse.Namespace, flag: str, kind: str) -> float | None:
+def _get(args: argparse.Namespace, flag: str, kind: str, notes: list[str] | None = None) -> float | None:
+    """The flag's value in SI units; how an unusual form was read goes to ``notes``."""
     raw = getattr(args, flag.lstrip("-").replace("-", "_"), None)
     if raw is None:
         return None
     try:
-        return parse_quantity(raw, kind, zero_ok=True if flag in ("--pot-setting", "--r-tol", "--c-tol") else None)
+        reading = read_value(raw, kind, zero_ok=True if flag in ("--pot-setting", "--r-tol", "--c-tol") else None)
     except ValueParseError as exc:
         raise ValueParseError(f"{flag}: {exc.message}", got=raw, expected=exc.expected) from None
+    if notes is not None:
+        notes.extend(reading.remarks(flag))
+    return reading.value
+
+
+def quantity_from_args(args: argparse.Namespace, flag: str, kind: str) -> float | None:
+    """One flag's value (``--vcc`` of ``bom``, ...): a bad value is one error naming the flag."""
+    return _get(args, flag, kind)
 
 
 def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
     """Build the validated circuit from parsed flags (raises on bad values)."""
-    v = {flag: _get(args, flag, kind) for flag, kind, _ in _FLAGS if hasattr(args, flag.lstrip("-").replace("-", "_"))}
+    notes: list[str] = []
+    v = {flag: _get(args, flag, kind, notes) for flag, kind, _ in _FLAGS if hasattr(args, flag.lstrip("-").replace("-", "_"))}
     mode = getattr(args, "mode", None)
     if mode is None and (v.get("--rb") is not None or v.get("--ra") is not None):
         mode = "astable"
@@ -107,7 +117,10 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
     duty = _get(args, "--duty", "fraction") if hasattr(args, "duty") else None
     rng = None
     if getattr(args, "range", None):
-        rng = parse_range(args.range, "time")
+        try:
+            rng = parse_range(args.range, "time")
+        except ValueParseError as exc:
+            raise ValueParseError(f"--range: {exc.message}", got=args.range, expected=exc.expected) from None
     for q, kind in (("width", "width"), ("period", "period"), ("freq", "freq")):
         val = v.get(f"--target-{q}")
         if val is not None:
@@ -133,6 +146,7 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         target=target,
         cont=v.get("--cont"),
         **_makers_from_args(args),
+        notes=tuple(notes),
     )
 
 

@@ -31,7 +31,9 @@ def to_plain(obj: object) -> object:
 
 
 def emit_json(obj: object) -> None:
-    json.dump(to_plain(obj), sys.stdout, ensure_ascii=False, indent=2)
+    from advisor.cli.terminal import ascii_only
+
+    json.dump(to_plain(obj), sys.stdout, ensure_ascii=ascii_only(), indent=2)
     sys.stdout.write("\n")
 
 

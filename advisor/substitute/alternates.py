@@ -12,6 +12,8 @@ no family still made can do the job; when listed they come after every other one
 
 from __future__ import annotations
 
+import os
+
 from advisor.circuit import Circuit
 from advisor.errors import RetimeError
 from advisor.substitute.rank import rank_facts
@@ -76,6 +78,12 @@ def alternates(
                      keep_within=keep_within)
         except RetimeError as exc:
             rejected.append(Rejected(fam.id, exc.message))
+            continue
+        except Exception as exc:  # a bug in one candidate must not lose the others
+            if os.environ.get("RETIME_DEBUG"):
+                raise
+            rejected.append(Rejected(fam.id, f"could not be judged: internal problem {type(exc).__name__}: {exc} "
+                                             "(please report it)"))
             continue
         if r.cls == "unsuitable":
             rejected.append(Rejected(fam.id, "; ".join(r.verdict.reasons)))

@@ -135,6 +135,9 @@ def swap(
     if mode == "astable" and new.function == "monostable":
         raise InputError(f"{new.id} is a one-shot: it cannot replace the {old.id} astable",
                          hint="pick a 555-class timer or a 4047")
+    if mode == "mono" and new.function == "programmable-timer":  # its law has only an oscillator form
+        raise InputError(f"{new.id} is a programmable timer (an RC oscillator and a counter): "
+                         f"it cannot make the {old.id}'s single pulse", hint="pick a one-shot or a 555-class timer")
     cal = old_t.calibration.to_json() if old_t.calibration is not None else None
     kept = kept_quantity(mode, old_t.timing, cal is not None)
     if cal is not None:

@@ -9,6 +9,7 @@ from advisor.parts import Family
 from advisor.timing.adjust import judge_target, travel_ends
 from advisor.timing.band import band
 from advisor.timing.calibrate import calibrate, scale
+from advisor.timing.domain import check_domain, check_times
 from advisor.timing.model import Model, build
 from advisor.timing.result import TimingResult
 from advisor.timing.trigger import analyse_trigger
@@ -45,8 +46,10 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
     100 000 draws, when the target carries a window (``--range``).
     """
     model = build(family, circuit)
+    check_domain(model)
     nominal = model.times()
     lows, highs = band(model)
+    check_times(model, nominal, lows, highs)
     cal = None
     factor = 1.0
     if circuit.measured is not None:
@@ -77,7 +80,8 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
     return TimingResult(
         part=family.id, mode=model.mode, law=model.law, values=network_values(model), timing=timing,
         adjust=adjust, target=target, calibration=cal, trigger=trig, findings=[], facts=network_facts(model),
-        constants=dict(model.constants), tolerances=tolerances(circuit), assumptions=list(model.assumptions),
+        constants=dict(model.constants), tolerances=tolerances(circuit),
+        assumptions=list(circuit.notes) + list(model.assumptions),
         distribution=dist, capture=circuit.measured.capture if circuit.measured is not None else None,
         maker=model.maker, maker_basis=model.maker_basis, makers=list(model.alternatives),
     )
@@ -86,7 +90,9 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
 def predict_nominal(family: Family, circuit: Circuit) -> dict:
     """Nominal timing only (fast; calibrated when a measurement is given)."""
     model = build(family, circuit)
+    check_domain(model)
     nominal = model.times()
+    check_times(model, nominal)
     if circuit.measured is not None:
         nominal = scale(nominal, calibrate(model.mode, nominal, circuit.measured).factor)
     return nominal

@@ -8,6 +8,7 @@ time in the result is multiplied by it (frequencies divided; duty unchanged).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from advisor.circuit import Measurement
@@ -34,6 +35,8 @@ def calibrate(mode: str, nominal: dict, measurement: Measurement) -> Calibration
         want = ", ".join(f"--measured-{k}" for k in _FOR_MODE[mode])
         raise InputError(f"a {'monostable' if mode == 'mono' else 'astable'} circuit has no measured {q}", got=q, expected=want)
     predicted = nominal[q]
+    if not predicted > 0 or not math.isfinite(predicted):  # the domain guards refuse such a circuit first
+        raise InputError(f"cannot calibrate against a predicted {q} of {predicted!r} s", got=predicted)
     return Calibration(measurement.value / predicted, q, measurement.value, predicted)
 
 

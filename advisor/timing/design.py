@@ -30,6 +30,7 @@ from advisor.timing.adjust import setting_for, target_quantity, travel_ends
 from advisor.timing.analyse import network_values, tolerances
 from advisor.timing.band import band
 from advisor.timing.constants import limit
+from advisor.timing.domain import check_domain
 from advisor.timing.model import build, default_vcc, resolve_mode
 from advisor.timing.result import Candidate, DesignResult
 from advisor.timing.validity import network_facts
@@ -103,8 +104,9 @@ def design(
         circuit = circuit.with_(mode="astable")
     mode = resolve_mode(family, circuit)
     vcc = circuit.vcc if circuit.vcc is not None else default_vcc(family)
-    assumptions = [] if circuit.vcc is not None else [f"supply {vcc:g} V (not given)"]
+    assumptions = list(circuit.notes) + ([] if circuit.vcc is not None else [f"supply {vcc:g} V (not given)"])
     probe = build(family, circuit.with_(vcc=vcc), need_network=False)
+    check_domain(probe, network=False)  # a supply the law cannot use: refused, not designed for
     target_quantity(probe, target)  # raises for a target the mode cannot have
     q, t_goal, window = _time_goal(mode, target)
     r_lo, r_hi = _r_limits(family, vcc)

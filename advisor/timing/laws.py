@@ -93,9 +93,21 @@ def timer555_astable(ra, rb, c, upper, lower, r_dis=0.0):
     adds to RB); equation (1).
     """
     t_high = (ra + rb) * c * _ln((1.0 - lower) / (1.0 - upper))
-    d = r_dis / (ra + r_dis)
-    r_low = rb + ra * r_dis / (ra + r_dis)
-    t_low = r_low * c * _ln((upper - d) / (lower - d))
+    if isinstance(ra, (int, float)) and isinstance(r_dis, (int, float)) and ra + r_dis == 0:
+        d, r_low = 0.0, rb  # RA = Rd = 0: no divider (the domain guards refuse a zero time)
+    else:
+        d = r_dis / (ra + r_dis)
+        r_low = rb + ra * r_dis / (ra + r_dis)
+    if isinstance(d, (int, float)) and isinstance(lower, (int, float)):
+        # d >= l: the divider RA/Rd holds C above the lower threshold, the low phase
+        # never ends (advisor.timing.domain refuses such a circuit with its reason).
+        t_low = r_low * c * _ln((upper - d) / (lower - d)) if lower > d else math.inf
+    else:
+        import numpy as np  # arrays only come from callers that already use numpy
+
+        ok = np.asarray(lower > d)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t_low = np.where(ok, r_low * c * np.log(np.where(ok, (upper - d) / (lower - d), 1.0)), np.inf)
     return t_high, t_low
 
 

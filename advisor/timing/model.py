@@ -109,6 +109,8 @@ class Model:
                 period = laws.cd4541_oscillator(p["k_osc"], r, p["c"])
             th = tl = period * s / 2
         period = th + tl
+        if isinstance(period, float) and not period > 0:  # no resistance: advisor.timing.domain refuses it
+            return {"high": th, "low": tl, "period": period, "frequency": float("inf"), "duty": float("nan")}
         return {"high": th, "low": tl, "period": period, "frequency": 1.0 / period, "duty": th / period}
 
     def at(self, **changes: float) -> dict:
@@ -426,6 +428,8 @@ def _add_published_factor(family, mode, params, ranges, kinds, constants, vcc, c
     else:
         ra, rb = params["ra"], params["rb"] + params.get("rp", 0.0)
         th, tl = laws.timer555_astable(ra, rb, 1.0, u, l)
+        if not 0 < th + tl < float("inf"):
+            return  # no period to compare with (RA + RB = 0): advisor.timing.domain refuses the circuit
         ratios = [((ra + 2 * rb) / k) / (th + tl) for k in (const.min, const.max)]
     params["kf"] = 1.0
     ranges["kf"] = (min(ratios + [1.0]), max(ratios + [1.0]))
