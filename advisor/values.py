@@ -54,19 +54,19 @@ class QuantityKind:
 # a slip (a bare capacitor code read as farads, a supply in gigavolts) is caught.
 # Common practice, each stated with its reason in the refusal.
 KINDS: dict[str, QuantityKind] = {
-    "resistance": QuantityKind("resistance", "Ω", "4k7, 10 kΩ, 470R, R47, 1Meg", zero_ok=True, limits=Limits(
+    "resistance": QuantityKind("resistance", "Ω", "4k7, 10 kΩ, 470R, R47", zero_ok=True, limits=Limits(
         1e-3, 1e9, "less than a wire link", "more than any timing resistor: leakage would set the time")),
-    "capacitance": QuantityKind("capacitance", "F", "10n, 2n2, 104, 0.01µF, 100 pF", limits=Limits(
+    "capacitance": QuantityKind("capacitance", "F", "10n, 2n2, 0.01µF, 100 pF", limits=Limits(
         1e-13, 1.0, "less than the stray capacitance of a pin", "larger than any timing capacitor")),
     "time": QuantityKind("time", "s", "64us, 64 µs, 1.5 ms", limits=Limits(
         1e-12, 1e5, "shorter than any logic edge", "longer than a day: use a counter or a clock")),
     "frequency": QuantityKind("frequency", "Hz", "15.625kHz, 1 MHz", limits=Limits(
         1e-5, 1e10, "slower than one cycle a day", "faster than any timer or one-shot")),
-    "voltage": QuantityKind("voltage", "V", "5, 15 V, 3V3, 12 VDC", limits=Limits(
+    "voltage": QuantityKind("voltage", "V", "5, 15 V, 3.3V", limits=Limits(
         1e-3, 1e3, "below any logic level",
         "no timer or one-shot runs from that; for mains or high-voltage circuits follow the maker's "
         "datasheet, local codes and licensed practice")),
-    "fraction": QuantityKind("fraction", "", "0.05, 5%, ±5%", zero_ok=True),
+    "fraction": QuantityKind("fraction", "", "0.05, 5%", zero_ok=True),
     "number": QuantityKind("number", "", "1.5, 2e-3", zero_ok=True, negative_ok=True),
 }
 
