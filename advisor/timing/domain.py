@@ -39,7 +39,15 @@ def check_domain(model: Model, *, network: bool = True) -> None:
 
     ``network=False`` (inverse design, whose resistors are placeholders until solved)
     checks only what does not depend on the resistors: the supply and the thresholds.
+    Each maker's figures (``model.alternatives``) are checked as well as the nominal's.
     """
+    _check_one(model, network)
+    if len(model.alternatives) > 1:
+        for alt in model.alternatives:
+            _check_one(model.for_alternative(alt), network)
+
+
+def _check_one(model: Model, network: bool) -> None:
     p = model.params
     fid = model.family.id
     if model.law == "ln-supply" and p["vcc"] <= 1.0:

@@ -321,6 +321,8 @@ def _published_factor(const: Constant, mode: str, p: dict, u: float, l: float) -
     else:
         ra, rb = p["ra"], p["rb"] + p.get("rp", 0.0)
         th, tl = laws.timer555_astable(ra, rb, 1.0, u, l)
+        if not 0 < th + tl < float("inf"):
+            return (1.0, 1.0)  # no period to compare with (RA + RB = 0): advisor.timing.domain refuses the circuit
         ratios = [((ra + 2 * rb) / k) / (th + tl) for k in (const.min, const.max)]
     return (min(ratios + [1.0]), max(ratios + [1.0]))
 
@@ -407,6 +409,8 @@ def _published_factor(const: Constant, mode: str, p: dict, u: float, l: float) -
     else:
         ra, rb = p["ra"], p["rb"] + p.get("rp", 0.0)
         th, tl = laws.timer555_astable(ra, rb, 1.0, u, l)
+        if not 0 < th + tl < float("inf"):
+            return (1.0, 1.0)  # no period to compare with (RA + RB = 0): advisor.timing.domain refuses the circuit
         ratios = [((ra + 2 * rb) / k) / (th + tl) for k in (const.min, const.max)]
     return (min(ratios + [1.0]), max(ratios + [1.0]))
 
