@@ -141,3 +141,12 @@ def test_unknown_supply_asks_for_the_supply_option(tmp_path, catalog):
     assert asks, j["unresolved"]
     j2 = plan_board(catalog, read_board(path), new_vcc=5.0, supplies={"VDD_A": 15.0}).to_json()
     assert not [u for u in j2["unresolved"] if "--supply" in u["reason"]]
+
+
+def test_unreadable_value_away_from_the_timers_is_not_their_problem(tmp_path, catalog):
+    def edit(t):  # C10 decouples the 5 V rail: it touches no timing, trigger or input pin
+        line = _symbol_line(t, "C10")
+        return t.replace(line, line.replace('"Value" "100n"', '"Value" "tbd"'))
+    j = plan_board(catalog, read_board(_variant(tmp_path, edit)), new_vcc=5.0).to_json()
+    assert not [u for u in j["unresolved"] if u["ref"] == "C10"]
+    assert _planned(j) == {"U3", "U5", "U7", "U9"}

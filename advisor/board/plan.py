@@ -112,7 +112,13 @@ def plan_board(catalog, board: Board, *, new_vcc: float | None = None, supplies:
     rec = recognise_board(catalog, board)
     rails = Rails(supplies)
     tracer = Tracer(board, rec, rails)
-    unresolved: list[Problem] = list(board.problems) + list(rec.problems) + list(tracer.problems)
+    # A passive's unreadable value or untraceable wiring matters where it touches a timer's pin;
+    # elsewhere on the board (a pot wired as a divider in an audio stage) it is not this plan's business.
+    timer_nets = {n.name for t in rec.timers for n in board.nets if any(r == t.part.ref for r, _ in n.pins)
+                  if not n.power}
+    near = {r for n in board.nets if n.name in timer_nets for r, _ in n.pins}
+    unresolved: list[Problem] = list(board.problems) + [
+        p for p in list(rec.problems) + list(tracer.problems) if p.where.ref in near]
     channels = []
     for t in rec.timers:
         for ch in trace_timer(tracer, t):
