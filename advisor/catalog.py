@@ -96,6 +96,10 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
     for need in REQUIRED_CONSTANTS[fam.timing.law]:
         if not fam.timing.constants.get(need):
             problems.append(Problem(file, f"timing.constants.{need}", f"law {fam.timing.law!r} needs constant {need!r}"))
+    if not any(max(e.bounds()) > 0 for e in fam.timing.spread):
+        problems.append(Problem(file, "timing.spread", "no part-to-part spread recorded (a zero spread makes the "
+                                "band shrink to the R and C tolerances); expected a guaranteed limit from the sheet, "
+                                "or a typical figure marked basis: typical (catalog/README.md)"))
     for i, pkg in enumerate(fam.packages):
         for p in pkg.pins:
             if p.channel is not None and not 1 <= p.channel <= fam.channels:

@@ -130,3 +130,19 @@ def test_catalog_check_command_lists_problems(tmp_path, capsys):
     out = capsys.readouterr().out
     assert rc == 1
     assert "unknown source 'nowhere'" in out and "problem(s)" in out
+
+
+def test_a_family_without_part_to_part_spread_is_a_catalog_error(tmp_path):
+    # Every family records a non-zero spread (catalog/README.md); zero spread shrinks the band
+    # to the R and C tolerances alone.
+    from support.minicat import _BASE as FAMILY
+
+    import copy
+
+    data = copy.deepcopy(FAMILY)
+    data["timing"].pop("spread")
+    import yaml
+
+    (tmp_path / "test1.yaml").write_text(yaml.safe_dump(data), encoding="utf-8")
+    cat = load_dirs([tmp_path])
+    assert any(p.path == "timing.spread" for p in cat.problems)
