@@ -209,6 +209,49 @@ def count_memory(fam: Family) -> int:
     return n
 
 
+#: Source kinds that count as a published document when the source names its document.
+PUBLISHED_KINDS = ("datasheet", "app-note", "standard", "textbook")
+
+
+def provenance(fam: Family) -> dict[str, int]:
+    """Where a family's numbers come from (``catalog check --json`` ``provenance``).
+
+    ``values``: every sourced number (a ``{value, source}`` entry, a range, a spread,
+    a width-table row) in supply, timing, components, behaviour and interface.
+    ``published``: those whose source is a listed document with its id and revision
+    (``document`` given) and a kind in :data:`PUBLISHED_KINDS`. ``memory`` and
+    ``common_practice``: the reserved sources. ``constants_from_memory``: timing-law
+    constant entries (``timing.constants``) from memory. The rest (forum reports,
+    distributor pages, measurements, documents without an id) count in ``values`` only.
+    """
+    out = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0}
+    published = {s.id for s in fam.sources if s.document and s.kind in PUBLISHED_KINDS}
+
+    def count(obj: object) -> None:
+        if isinstance(obj, BaseModel):
+            src = getattr(obj, "source", None)
+            numeric = any(isinstance(getattr(obj, k, None), (int, float)) and not isinstance(getattr(obj, k, None), bool)
+                          for k in ("value", "min", "max", "typ", "minus", "plus"))
+            if isinstance(src, str) and numeric:
+                out["values"] += 1
+                out["published"] += src in published
+                out["memory"] += src == "memory"
+                out["common_practice"] += src == "common-practice"
+            for name in type(obj).model_fields:
+                count(getattr(obj, name))
+        elif isinstance(obj, (list, tuple)):
+            for item in obj:
+                count(item)
+        elif isinstance(obj, dict):
+            for item in obj.values():
+                count(item)
+
+    for part in (fam.supply, fam.timing, fam.components, fam.behaviour, fam.interface):
+        count(part)
+    out["constants_from_memory"] = sum(v.source == "memory" for vals in fam.timing.constants.values() for v in vals)
+    return out
+
+
 @dataclass
 class Catalog:
     """All families, indexed by upper-case id; ``problems`` lists what failed to load."""

@@ -53,13 +53,23 @@ def run(args) -> int:
     rows = [_summary(cat, k) for k in cat.ids()]
     memory = sum(r["memory_values"] for r in rows)
     by_family = {r["id"]: r["memory_values"] for r in rows if r["memory_values"]}
+    from advisor.catalog import provenance
+
+    prov = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0}
+    for k in cat.ids():
+        for name, n in provenance(cat.families[k]).items():
+            prov[name] += n
     if args.json:
         emit_json({"ok": not problems, "families": len(rows), "problems": problems,
-                   "memory_values": memory, "memory_by_family": by_family})
+                   "memory_values": memory, "memory_by_family": by_family, "provenance": prov})
     else:
         for line in problems:
             print(line)
         verdict = "ok" if not problems else f"{len(problems)} problem(s)"
         print(f"catalog: {len(rows)} families, {verdict}; {memory} values still from memory (unverified)"
               + (f" in {len(by_family)} families" if by_family else ""))
+        share = prov["published"] / prov["values"] if prov["values"] else 0.0
+        print(f"provenance: {prov['values']} numbers, {prov['published']} ({share:.0%}) from a published document, "
+              f"{prov['memory']} from memory, {prov['common_practice']} common practice; "
+              f"{prov['constants_from_memory']} timing constants from memory")
     return 1 if problems else 0
