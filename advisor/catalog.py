@@ -25,14 +25,14 @@ try:  # the C loader is ~10x faster; fall back when libyaml is absent
 except AttributeError:  # pragma: no cover
     _Loader = yaml.SafeLoader
 
-#: Constants each timing law needs (the rest of the grammar is in advisor.parts).
-REQUIRED_CONSTANTS: dict[str, tuple[str, ...]] = {
-    "krc": ("k",),
-    "timer-555": ("upper_threshold", "lower_threshold"),
-    "ln-supply": ("a",),
-    "cd4047": ("k_mono", "k_astable"),
-    "cd4541": ("k_osc",),
-}
+def _required_constants() -> dict[str, tuple[str, ...]]:
+    from advisor.timing.registry import LAWS
+
+    return {name: spec.constants for name, spec in LAWS.items()}
+
+
+#: Constants each timing law needs (the law registry, advisor.timing.registry).
+REQUIRED_CONSTANTS: dict[str, tuple[str, ...]] = _required_constants()
 
 
 @dataclass(frozen=True)

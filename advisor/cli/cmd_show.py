@@ -11,13 +11,14 @@ from __future__ import annotations
 NAME = "show"
 HELP = "show a family's sheet: supply, timing law and constants (with spread), limits, behaviour, pins, sources"
 
-LAW_TEXT = {
-    "krc": "t = K x (R + r_offset) x C",
-    "timer-555": "mono t = ln(1/(1 - upper)) R C (about 1.1 R C); astable f = 1/(ln 2 (RA + 2 RB) C) (about 1.44/((RA+2RB) C))",
-    "ln-supply": "t = a x R x C x ln(VDD - VSS)",
-    "cd4047": "mono t = k_mono R C; astable period at Q = k_astable R C",
-    "cd4541": "oscillator period = k_osc Rt Ct, divided by the programmed count",
-}
+def _law_text() -> dict[str, str]:
+    from advisor.timing.registry import LAWS
+
+    return {name: spec.equation for name, spec in LAWS.items()}
+
+
+#: Equation text per law, from the law registry (advisor.timing.registry).
+LAW_TEXT = _law_text()
 
 
 def register(parser) -> None:

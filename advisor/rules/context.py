@@ -28,6 +28,7 @@ from advisor.circuit import Circuit
 from advisor.parts import Family, Sourced
 from advisor.timing.constants import limit as _limit
 from advisor.timing.constants import pick as _pick_constant
+from advisor.timing.registry import main_constant
 
 Kind = Literal["number", "bool", "text"]
 
@@ -198,8 +199,6 @@ def vocabulary(scope: str) -> dict[str, Var]:
 
 _CMOS = {"cmos-555", "cmos-4000", "hc", "hct", "ac", "ahc", "ahct", "vhc", "lv", "lvc"}
 _BIPOLAR = {"bipolar", "ttl", "ls", "als"}
-#: The law's main constant, by law (and 555 mode).
-_MAIN_CONSTANT = {"krc": "k", "ln-supply": "a", "cd4541": "k_osc"}
 
 
 def _pick(values: list[Sourced], vcc: float | None, c: float | None, strict: str) -> float | None:
@@ -287,11 +286,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
                 r_setting = base + pot_v * setting
 
     comp, tim, beh, itf = family.components, family.timing, family.behaviour, family.interface
-    cname = _MAIN_CONSTANT.get(tim.law)
-    if tim.law == "timer-555":
-        cname = "astable_k" if mode == "astable" else "mono_k"
-    elif tim.law == "cd4047":
-        cname = "k_astable" if mode == "astable" else "k_mono"
+    cname = main_constant(tim.law, mode)  # the law registry names the law's main constant
     consts = timing.get("constants") if isinstance(timing.get("constants"), dict) else {}
     used_k = consts.get(cname) if cname else None
     if isinstance(used_k, dict):  # the constant the engine used (interpolated when it had to)

@@ -26,7 +26,7 @@ from dataclasses import dataclass, field, replace
 from advisor.circuit import Circuit
 from advisor.errors import InputError
 from advisor.parts import Family
-from advisor.timing import laws
+from advisor.timing import laws, registry
 from advisor.timing.alternatives import Alternative, MakerChoice, alternatives, choose
 from advisor.timing.constants import Constant
 from advisor.timing.spread import NO_SPREAD, PartSpread, part_spread
@@ -85,29 +85,14 @@ class Model:
         """Evaluate the law: {"width"} or {"high","low","period","frequency","duty"} (s, Hz)."""
         p = self.params if p is None else p
         s = p.get("spread", 1.0) * p.get("kf", 1.0) * p.get("fit", 1.0)
+        spec = registry.law(self.law)  # the one registry of laws (advisor.timing.registry)
         if self.mode == "mono":
-            r = p["r"] + p.get("rp", 0.0)
-            if self.law == "krc":
-                w = laws.k_rc(p["k"], r, p["c"], p.get("r_offset", 0.0))
-            elif self.law == "ln-supply":
-                w = laws.ln_supply(p["a"], r, p["c"], p["vcc"])
-            elif self.law == "cd4047":
-                w = laws.cd4047_mono(p["k_mono"], r, p["c"])
-            elif self.law == "timer-555":
-                w = laws.timer555_mono(r, p["c"], p["upper"])
-            else:  # pragma: no cover - guarded in build()
+            if spec.mono is None:  # pragma: no cover - guarded in build()
                 raise InputError(f"law {self.law!r} has no monostable form")
-            return {"width": w * s}
-        if self.law == "timer-555":
-            th, tl = laws.timer555_astable(p["ra"], p["rb"] + p.get("rp", 0.0), p["c"], p["upper"], p["lower"], p.get("r_dis", 0.0))
-            th, tl = th * s, tl * s
-        else:
             r = p["r"] + p.get("rp", 0.0)
-            if self.law == "cd4047":
-                period = laws.cd4047_astable(p["k_astable"], r, p["c"])
-            else:
-                period = laws.cd4541_oscillator(p["k_osc"], r, p["c"])
-            th = tl = period * s / 2
+            return {"width": spec.mono(p, r) * s}
+        th, tl = spec.astable(p, p.get("r", 0.0) + p.get("rp", 0.0))
+        th, tl = th * s, tl * s
         period = th + tl
         if isinstance(period, float) and not period > 0:  # no resistance: advisor.timing.domain refuses it
             return {"high": th, "low": tl, "period": period, "frequency": float("inf"), "duty": float("nan")}
