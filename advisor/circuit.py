@@ -85,6 +85,9 @@ class Circuit:
     measured: Measurement | None = None
     target: Target | None = None
     cont: float | None = None  # V, a 555's control pin driven to this voltage (None: open)
+    pot_in: Literal["ra", "rb"] | None = None  # 555 astable: the resistor the trimmer sits with (default ra)
+    pot_tol: float | None = None  # the trimmer's own tolerance on its full value (default 20 %)
+    pot_end: float | None = None  # Ω left in circuit at each stop of the trimmer (default: its class)
     r_series: str | None = None  # E-series the user chose for resistors: its tolerance when --r-tol is absent
     c_series: str | None = None  # E-series the user chose for capacitors: likewise for --c-tol
     #: Makers the part number (or ``--maker``) names, as ids of catalog/makers.yaml; empty
@@ -104,7 +107,12 @@ class Circuit:
             )
         if self.pot_setting is not None and self.pot is None:
             raise InputError("--pot-setting needs --pot (the variable resistor's value)")
-        for name in ("r_tol", "c_tol"):
+        if self.pot_in is not None and self.pot_in not in ("ra", "rb"):
+            raise InputError(f"pot position {self.pot_in!r} is not ra or rb", got=self.pot_in, expected="ra or rb")
+        if self.pot_end is not None and self.pot is not None and not 0 <= self.pot_end < self.pot / 2:
+            raise InputError(f"trimmer end resistance {self.pot_end:g} Ω must lie between 0 and half the trimmer's "
+                             f"{self.pot:g} Ω", got=self.pot_end)
+        for name in ("r_tol", "c_tol", "pot_tol"):
             v = getattr(self, name)
             if v is not None and not 0.0 <= v < 1.0:
                 raise InputError(f"{name.replace('_', ' ')} {v!r} is outside 0..1", got=v, expected="a fraction such as 0.05 or 5%")

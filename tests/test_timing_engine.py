@@ -69,13 +69,14 @@ def test_monte_carlo_inside_band_and_window_share():
 
 
 def test_pot_range_and_setting():
-    # Property: t = K·(R + pot·s)·C, so the setting for a target solves exactly
-    res = analyse(K07, Circuit("T", vcc=5, r=10e3, c=10e-9, pot=10e3, target=Target("width", 105e-6)))
+    # Property: t = K·(R + pot·s)·C, so the setting for a target solves exactly (an ideal
+    # trimmer: --pot-end 0; the default end resistance is tested in test_trimmer.py)
+    res = analyse(K07, Circuit("T", vcc=5, r=10e3, c=10e-9, pot=10e3, pot_end=0.0, target=Target("width", 105e-6)))
     assert res.adjust["min"]["width"] == pytest.approx(0.7 * 10e3 * 10e-9)
     assert res.adjust["max"]["width"] == pytest.approx(0.7 * 20e3 * 10e-9)
     assert res.target["reachable"] is True
     assert res.target["setting"] == pytest.approx(0.5, abs=1e-9)
-    far = analyse(K07, Circuit("T", vcc=5, r=10e3, c=10e-9, pot=10e3, target=Target("width", 1e-3)))
+    far = analyse(K07, Circuit("T", vcc=5, r=10e3, c=10e-9, pot=10e3, pot_end=0.0, target=Target("width", 1e-3)))
     assert far.target["reachable"] is False and far.target["setting"] is None
 
 
@@ -146,7 +147,8 @@ def test_findings_r_below_min_c_below_linear_r_above_max():
     res = analyse(fam, Circuit("T", vcc=5, r=1e3, c=100e-12, pot=50e3))
     assert res.findings == []  # the engine computes facts; the rules judge them
     f = res.facts
-    assert f["r_path_min"] == 1e3 and f["r_path_max"] == 51e3 and f["pot_in_discharge_path"] is True
+    # R + the trimmer's end resistance at its zero stop (default class: 1 % of 50 kΩ = 500 Ω)
+    assert f["r_path_min"] == 1e3 + 500 and f["r_path_max"] == 51e3 and f["pot_in_discharge_path"] is True
     assert f["limits"]["r_min"]["value"] == 2000 and f["limits"]["r_max"]["value"] == 40e3
     rules = {x.rule: x.severity for x in check_circuit(fam, Circuit("T", vcc=5, r=1e3, c=100e-12, pot=50e3)).findings}
     assert rules["pot-end-below-min"] == "danger"

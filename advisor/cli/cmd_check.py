@@ -90,11 +90,16 @@ def network_text(values: dict, mode: str) -> str:
 
     parts = []
     if values.get("ra") is not None:
-        parts.append(f"RA {format_eng(values['ra'], 'Ω')}")
+        ra = f"RA {format_eng(values['ra'], 'Ω')}"
         rb = f"RB {format_eng(values['rb'], 'Ω')}"
         if values.get("pot"):
-            rb += f" + pot {format_eng(values['pot'], 'Ω')}" + (f" at {_pct(values['pot_setting'])}" if values.get("pot_setting") is not None else "")
-        parts.append(rb)
+            trim = (f" + trimmer {format_eng(values['pot'], 'Ω')}"
+                    + (f" at {_pct(values['pot_setting'])}" if values.get("pot_setting") is not None else ""))
+            if values.get("pot_in") == "rb":
+                rb += trim + " (trimmer in RB)"
+            else:
+                ra += trim + " (trimmer in RA)"
+        parts += [ra, rb]
     elif values.get("r") is not None:
         r = f"R {format_eng(values['r'], 'Ω')}" + (" (internal)" if values.get("r_internal") else "")
         if values.get("pot"):

@@ -69,7 +69,8 @@ def _network(values: dict) -> str:
     elif values.get("r") is not None:
         parts.append(f"R {format_code(values['r'])}")
     if values.get("pot"):
-        parts.append(f"+ trimmer {format_code(values['pot'])}")
+        where = f" in {values['pot_in'].upper()}" if values.get("pot_in") else ""
+        parts.append(f"+ trimmer {format_code(values['pot'])}{where}")
     parts.append(f"C {format_code(values['c'], 'capacitance')}")
     return "  ".join(parts)
 

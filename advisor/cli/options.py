@@ -18,8 +18,12 @@ _FLAGS: list[tuple[str, str, str]] = [
     ("--r", "resistance", "main timing resistor (Rext, or RA of a 555), e.g. 10k, 4k7"),
     ("--ra", "resistance", "555 astable RA"),
     ("--rb", "resistance", "555 astable RB"),
-    ("--pot", "resistance", "variable resistor in series with the main timing resistor (RB in an astable)"),
+    ("--pot", "resistance", "variable resistor (trimmer) in series with the main timing resistor; in a 555 "
+                            "astable with RA unless --pot-in rb"),
     ("--pot-setting", "fraction", "fraction 0..1 of the variable resistor's travel in circuit"),
+    ("--pot-tol", "fraction", "the trimmer's own tolerance on its value (default 20%%)"),
+    ("--pot-end", "resistance", "resistance left at each stop of the trimmer (default: 1%% of its value or 2 ohm, "
+                                "whichever is greater; never 0)"),
     ("--c", "capacitance", "timing capacitor, e.g. 10n, 2n2, 0.01u"),
     ("--cont", "voltage", "555 control pin driven to this voltage (V); default open (2/3 of the supply)"),
     ("--r-tol", "fraction", "resistor tolerance, e.g. 1%% or 0.01 (default 5%%)"),
@@ -43,6 +47,8 @@ def add_circuit_options(p: argparse.ArgumentParser, *, targets: bool = True) -> 
             continue
         g.add_argument(flag, metavar="VALUE", help=help_)
     g.add_argument("--mode", choices=["mono", "astable"], help="555-class mode (default: mono, astable when RB is given)")
+    g.add_argument("--pot-in", choices=["ra", "rb"],
+                   help="555 astable: the trimmer sits with RA (default: moves the period, keeps the low time) or RB")
     g.add_argument("--trigger-edge", choices=["rising", "falling"], help="active edge of the trigger signal")
     g.add_argument("--maker", metavar="NAME",
                    help="use this maker's published constant (a maker of catalog/makers.yaml, e.g. NXP, TI, "
@@ -82,7 +88,8 @@ def _get(args: argparse.Namespace, flag: str, kind: str, notes: list[str] | None
     if raw is None:
         return None
     try:
-        reading = read_value(raw, kind, zero_ok=True if flag in ("--pot-setting", "--r-tol", "--c-tol") else None)
+        reading = read_value(raw, kind, zero_ok=True if flag in ("--pot-setting", "--r-tol", "--c-tol", "--pot-tol",
+                                                                 "--pot-end") else None)
     except ValueParseError as exc:
         raise ValueParseError(f"{flag}: {exc.message}", got=raw, expected=exc.expected) from None
     if notes is not None:
@@ -139,6 +146,9 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         c=v.get("--c"),
         pot=v.get("--pot"),
         pot_setting=v.get("--pot-setting"),
+        pot_in=getattr(args, "pot_in", None),
+        pot_tol=v.get("--pot-tol"),
+        pot_end=v.get("--pot-end"),
         r_tol=v.get("--r-tol"),
         c_tol=v.get("--c-tol"),
         trigger=Trigger(v.get("--trigger-period"), getattr(args, "trigger_edge", None), v.get("--trigger-high")),

@@ -67,7 +67,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("r", "number", "Ω", "main fixed timing resistor (Rext, or RA)"),
     _v("ra", "number", "Ω", "555 astable RA"),
     _v("rb", "number", "Ω", "555 astable RB"),
-    _v("pot", "number", "Ω", "variable resistor in series with the main resistor (RB in an astable)"),
+    _v("pot", "number", "Ω", "variable resistor in series with the main resistor (a 555 astable: with RA, or RB with --pot-in rb)"),
     _v("pot_setting", "number", "", "fraction of the pot's travel in circuit (0 = shorted)"),
     _v("has_pot", "bool", "", "a variable resistor is in the timing network"),
     _v("c", "number", "F", "timing capacitor"),
@@ -75,7 +75,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("r_total_max", "number", "Ω", "timing resistance with the pot at full travel"),
     _v("r_setting", "number", "Ω", "timing resistance at the given pot setting"),
     _v("r_discharge_min", "number", "Ω", "smallest resistance between the supply and the discharge/timing pin (555 astable: RA; mono: R with the pot at 0)"),
-    _v("pot_in_discharge_path", "bool", "", "turning the variable resistor to 0 takes the discharge/timing path down with it (mono; a 555 astable's pot sits in RB)"),
+    _v("pot_in_discharge_path", "bool", "", "turning the variable resistor to 0 takes the discharge/timing path down with it (mono, or a 555 astable's trimmer in RA)"),
     # catalog limits at this supply and C
     _v("r_min", "number", "Ω", "smallest timing resistance the datasheet allows (strictest value that applies)"),
     _v("r_max", "number", "Ω", "largest timing resistance the datasheet allows"),
@@ -305,7 +305,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
     if "r_path_min" in facts:
         r_dis = _num(facts, "r_path_min")
     pot_in_path = facts.get("pot_in_discharge_path") if isinstance(facts.get("pot_in_discharge_path"), bool) else (
-        bool(pot) and not (mode == "astable" and is_555))
+        bool(pot) and not (mode == "astable" and is_555 and used.get("pot_in") == "rb"))
     # Makers' formulas are alternatives: with no maker named, the constant spans every
     # maker's own figure (advisor.timing.alternatives); with one named, only its own.
     alts = [m for m in timing.get("makers") or [] if isinstance(m, dict) and isinstance(m.get("constants"), dict)]

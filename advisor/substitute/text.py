@@ -23,7 +23,8 @@ def network(values: dict) -> str:
         parts.append(f"R {format_code(values['r'])}" + (" (internal)" if values.get("r_internal") else ""))
     if values.get("pot"):
         setting = values.get("pot_setting")
-        parts.append(f"+ pot {format_code(values['pot'])}" + (f" at {setting:.0%}" if setting is not None else ""))
+        where = f" in {values['pot_in'].upper()}" if values.get("pot_in") else ""
+        parts.append(f"+ trimmer {format_code(values['pot'])}{where}" + (f" at {setting:.0%}" if setting is not None else ""))
     if values.get("c") is not None:
         parts.append(f"C {format_code(values['c'], 'capacitance')}")
     return " ".join(parts)

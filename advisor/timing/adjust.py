@@ -1,8 +1,9 @@
 """Variable resistor: the range over its travel, and whether a target is reachable.
 
 The network is a fixed resistor in series with a variable resistor used as a
-rheostat (0 Ω at setting 0, its full value at setting 1); in a 555 astable it adds
-to RB. Times are nominal at the two ends of travel; reachability on the real board
+rheostat (its end resistance at setting 0, its full value less the end resistance
+at setting 1); in a 555 astable it adds to RA (the default: trimming RA moves the
+period and keeps the low time) or to RB (``--pot-in rb``). Times are nominal at the two ends of travel; reachability on the real board
 is also judged with the worst-case band at both ends (``reachable_worst_case``):
 the target must lie above the longest time at setting 0 and below the shortest
 time at setting 1.

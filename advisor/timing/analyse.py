@@ -29,6 +29,7 @@ def network_values(model: Model) -> dict:
         "vcc": p["vcc"],
         "cont": model.cont,
         "r_internal": model.r_internal,
+        "pot_in": model.pot_in if model.pot else None,
     }
 
 

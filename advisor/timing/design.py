@@ -266,6 +266,13 @@ def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, var
     ra = max(ra, r_lo)
     if not variable:
         return astable_pairs(model, q, t_goal, duty, series, r_lo, r_hi, present=present)
+    if (circuit.pot_in or "ra") == "ra":
+        # Trimmer with RA (the default): RB fixed from the low time, RA fixed + trimmer
+        # cover the window; the low time stays put while the period moves.
+        rb_s = eseries.nearest(series, rb)
+        ev_a = lambda x: model.times(model.at(ra=x, rb=rb_s, rp=0.0))[q]  # noqa: E731
+        return _variable(ev_a, model.with_params(rb=rb_s), circuit, t_goal, window, series, r_lo, r_hi - rb_s,
+                         "ra", {"rb": rb_s})
     ra_s = max(eseries.nearest(series, ra), eseries.next_up(series, r_lo * 0.9999999))
     ev = lambda x: model.times(model.at(ra=ra_s, rb=x, rp=0.0))[q]  # noqa: E731
     return _variable(ev, model.with_params(ra=ra_s), circuit, t_goal, window, series, 1.0, r_hi - ra_s, "rb", {"ra": ra_s})

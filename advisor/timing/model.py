@@ -7,8 +7,10 @@ The band, the Monte Carlo run, the adjustment range and inverse design all work
 through this one object, so every law gets all of them.
 
 Parameter names: ``r`` fixed main resistor (Rext, RA of a 555 monostable), ``rp``
-the part of the variable resistor in circuit, ``ra``/``rb`` the 555 astable pair
-(the variable resistor adds to RB), ``c``, ``vcc``, the law's constants by name,
+the wiper position of the variable resistor (0 … its value; :meth:`Model.pot_r` turns
+it into the resistance in circuit, end resistance and tolerance ``kp`` included),
+``ra``/``rb`` the 555 astable pair (the variable resistor adds to RA by default,
+``pot_in="rb"`` puts it with RB), ``c`` , ``vcc``, the law's constants by name,
 ``kf`` (555: ratio of a published rounded constant to the exact law),
 ``fit`` (a maker's published width table against its law, ``advisor.timing.tables``)
 and ``spread`` (part-to-part multiplier, nominal 1).
@@ -41,6 +43,16 @@ TIME_KEYS = ("width", "high", "low", "period")
 DEFAULT_VCC = 5.0
 #: Setting assumed for a variable resistor whose setting is not given.
 DEFAULT_POT_SETTING = 0.5
+#: A trimmer's tolerance on its full value when none is given (common practice:
+#: cermet and carbon trimmers are sold at ±20 %, some at ±10 %).
+DEFAULT_POT_TOL = 0.20
+
+
+def pot_end_class(pot: float) -> float:
+    """Resistance left at each stop of a trimmer when none is given (Ω): 1 % of its value
+    or 2 Ω, whichever is greater (from memory: the end-resistance class makers state for
+    cermet trimmers; give --pot-end for the part fitted). A trimmer at "zero" is never 0 Ω."""
+    return max(0.01 * pot, 2.0)
 
 
 @dataclass
@@ -55,8 +67,20 @@ class Model:
     pot_setting: float | None = None
     assumptions: list[str] = field(default_factory=list)
     r_internal: bool = False
-    tolerance_kind: dict[str, str] = field(default_factory=dict)  # param -> "r" | "c" | "const" | "spread"
+    tolerance_kind: dict[str, str] = field(default_factory=dict)  # param -> "r" | "c" | "const" | "spread" | "pot"
     cont: float | None = None  # V, driven 555 control pin
+    pot_in: str | None = None  # 555 astable: "ra" or "rb", the resistor the trimmer adds to
+    pot_end: float = 0.0  # Ω in circuit at each stop of the trimmer
+
+    def pot_r(self, p: dict) -> float:
+        """The trimmer's resistance in circuit (Ω) for the wiper position ``rp`` (0 … pot):
+        the end resistance at the zero stop, the full value (× its tolerance factor ``kp``)
+        less the end resistance at the other stop, linear in between."""
+        rp = p.get("rp", 0.0)
+        if not self.pot:
+            return rp
+        s = rp / self.pot
+        return self.pot_end + s * (self.pot * p.get("kp", 1.0) - 2.0 * self.pot_end)
     alternatives: list["AltParams"] = field(default_factory=list)  # makers' formulas in use, nominal first
     maker: str | None = None  # the maker whose constant the nominal uses (None: unknown)
     maker_basis: str = "unknown: band spans makers"
@@ -86,12 +110,16 @@ class Model:
         p = self.params if p is None else p
         s = p.get("spread", 1.0) * p.get("kf", 1.0) * p.get("fit", 1.0)
         spec = registry.law(self.law)  # the one registry of laws (advisor.timing.registry)
+        rpot = self.pot_r(p)  # the trimmer's resistance in circuit (end resistance, tolerance)
         if self.mode == "mono":
             if spec.mono is None:  # pragma: no cover - guarded in build()
                 raise InputError(f"law {self.law!r} has no monostable form")
-            r = p["r"] + p.get("rp", 0.0)
+            r = p["r"] + rpot
             return {"width": spec.mono(p, r) * s}
-        th, tl = spec.astable(p, p.get("r", 0.0) + p.get("rp", 0.0))
+        if "ra" in p and "rb" in p:  # 555 astable: the trimmer sits with RA or RB
+            in_ra = self.pot_in == "ra"
+            p = {**p, "rp": 0.0, "ra": p["ra"] + (rpot if in_ra else 0.0), "rb": p["rb"] + (0.0 if in_ra else rpot)}
+        th, tl = spec.astable(p, p.get("r", 0.0) + rpot)
         th, tl = th * s, tl * s
         period = th + tl
         if isinstance(period, float) and not period > 0:  # no resistance: advisor.timing.domain refuses it
@@ -160,6 +188,22 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
             setting = DEFAULT_POT_SETTING
             assumptions.append(f"variable resistor at {setting:.0%} of its travel (setting not given)")
         params["rp"] = pot * setting
+        pot_tol = DEFAULT_POT_TOL if circuit.pot_tol is None else circuit.pot_tol
+        if circuit.pot_tol is None:
+            assumptions.append(f"trimmer tolerance ±{pot_tol:.0%} (assumed; --pot-tol)")
+        if pot_tol > 0:
+            params["kp"] = 1.0
+            ranges["kp"] = (1.0 - pot_tol, 1.0 + pot_tol)
+            kinds["kp"] = "pot"
+        pot_end = circuit.pot_end if circuit.pot_end is not None else pot_end_class(pot)
+        if circuit.pot_end is None:
+            assumptions.append(f"trimmer end resistance {pot_end:g} Ω at each stop (assumed from the cermet "
+                               "class, from memory; --pot-end)")
+    else:
+        pot_end = 0.0
+    pot_in = None
+    if pot is not None and mode == "astable" and law == "timer-555":
+        pot_in = circuit.pot_in or "ra"
 
     r_internal = False
     if mode == "astable" and law == "timer-555":
@@ -220,7 +264,7 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
         family=family, law=law, mode=mode, params=params, ranges=ranges, constants=constants,
         pot=pot, pot_setting=setting if pot is not None else None, assumptions=assumptions,
         r_internal=r_internal, tolerance_kind=kinds, cont=getattr(circuit, "cont", None) if law == "timer-555" else None,
-        alternatives=alts, maker=choice.maker, maker_basis=choice.basis,
+        alternatives=alts, maker=choice.maker, maker_basis=choice.basis, pot_in=pot_in, pot_end=pot_end,
     )
 
 

@@ -53,13 +53,16 @@ def network_facts(model: Model) -> dict:
     vcc, c = p["vcc"], p["c"]
     pot = model.pot or 0.0
     astable555 = model.law == "timer-555" and model.mode == "astable"
+    end = model.pot_end if pot else 0.0  # a trimmer at its zero stop still has its end resistance
+    trim_in_ra = astable555 and bool(pot) and model.pot_in == "ra"
     if astable555:
-        r_path_min, r_path_max = p["ra"], p["ra"] + p["rb"] + pot
-        what_min, what_max = "RA", "RA + RB" + (" + pot" if pot else "")
+        r_path_min, r_path_max = p["ra"] + (end if trim_in_ra else 0.0), p["ra"] + p["rb"] + pot
+        what_min = "RA" + (" (trimmer in RA at its zero stop)" if trim_in_ra else "")
+        what_max = "RA + RB" + (" + trimmer" if pot else "")
     else:
         r = p.get("r", 0.0)
-        r_path_min, r_path_max = r, r + pot
-        what_min, what_max = "R" + (" (pot at 0 Ω)" if pot else ""), "R" + (" + pot" if pot else "")
+        r_path_min, r_path_max = r + end, r + pot
+        what_min, what_max = "R" + (" (trimmer at its zero stop)" if pot else ""), "R" + (" + trimmer" if pot else "")
     comp, tim = fam.components, fam.timing
     limits: dict[str, dict | None] = {}
     for name, (where, strict) in _LIMITS.items():
@@ -78,7 +81,7 @@ def network_facts(model: Model) -> dict:
         "r_path_min_what": what_min,
         "r_path_max": r_path_max,
         "r_path_max_what": what_max,
-        "pot_in_discharge_path": bool(pot) and not astable555,
+        "pot_in_discharge_path": bool(pot) and (not astable555 or trim_in_ra),
         "limits": limits,
         "constants": constants,
     }
