@@ -219,6 +219,8 @@ def _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, field_name
     if window is None:  # a given variable resistor: centre the goal on its travel
         pot = circuit.pot
         fixed_ideal = _solve(ev, t_goal) - pot / 2
+        if not math.isfinite(fixed_ideal):
+            return []  # this capacitor cannot make the time with a resistor here
         fixed = max(eseries.nearest(series, max(fixed_ideal, r_lo)), r_lo)
         fixed = eseries.next_up(series, fixed * 0.9999999) if fixed < r_lo else fixed
         return [{field_name: fixed, "pot": pot, "pot_setting": None, **extra}]
@@ -269,7 +271,10 @@ def _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, var
     if (circuit.pot_in or "ra") == "ra":
         # Trimmer with RA (the default): RB fixed from the low time, RA fixed + trimmer
         # cover the window; the low time stays put while the period moves.
-        rb_s = eseries.nearest(series, rb)
+        # RB from the shortest period wanted with RA = RB there (duty 2/3): the trimmer and
+        # the fixed RA then add to RA above it (common practice for a frequency trim).
+        t_low = (window[0] if window is not None else t_goal) / spread
+        rb_s = eseries.nearest(series, max(t_low / (c * (2 * a + b)), r_lo))
         ev_a = lambda x: model.times(model.at(ra=x, rb=rb_s, rp=0.0))[q]  # noqa: E731
         return _variable(ev_a, model.with_params(rb=rb_s), circuit, t_goal, window, series, r_lo, r_hi - rb_s,
                          "ra", {"rb": rb_s})
