@@ -95,7 +95,7 @@ def test_todays_timing_matches_the_datasheet_laws_by_hand(plan):
 _BY_HAND = {  # the same values typed into retime swap (see test above for where they come from)
     "U3": ["--vcc", "5", "--r", "10k", "--c", "10n", "--trigger-edge", "falling"],
     "U5": ["--vcc", "15", "--r", "100k", "--c", "100n", "--trigger-edge", "rising"],
-    "U7": ["--vcc", "15", "--mode", "astable", "--ra", "10k", "--rb", "56k", "--pot", "22k", "--c", "10n"],
+    "U7": ["--vcc", "15", "--mode", "astable", "--ra", "10k", "--rb", "56k", "--pot", "22k", "--pot-in", "rb", "--c", "10n"],
     "U9": ["--vcc", "5", "--r", "47k", "--c", "100n", "--trigger-edge", "rising"],
 }
 

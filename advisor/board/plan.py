@@ -144,7 +144,9 @@ def plan_board(catalog, board: Board, *, new_vcc: float | None = None, supplies:
         tp.note = note
         edge = ch.trigger["edge"] if ch.trigger else None
         base = Circuit(part=ch.family.id, vcc=ch.vcc, mode=ch.mode if ch.family.function == "timer-555" else None,
-                       r=ch.r, ra=ch.ra, rb=ch.rb, c=ch.c, pot=ch.pot)
+                       r=ch.r, ra=ch.ra, rb=ch.rb, c=ch.c, pot=ch.pot,
+                       # the board reader keeps a trimmer only in the RB leg (an RA trimmer is folded in)
+                       pot_in="rb" if ch.pot and ch.mode == "astable" else None)
         where = Where(ch.where.file, ch.where.sheet, ch.ref)
         try:
             tp.circuit = base.with_(trigger=Trigger(None, edge, today_high))
