@@ -12,7 +12,7 @@ DESCRIPTION = (
     "(555 and 4047 astables) of a circuit with the part's published law, with the worst-case band "
     "from component tolerances and the makers' constants, the range over a variable resistor's "
     "travel, a target's reachability, calibration from a measured time, and what a trigger of a "
-    "given period does. Tolerances default to R 5 %% and C 10 %% and are shown when assumed."
+    "given period does. Tolerances default to R 5 % and C 10 % and are shown when assumed."
 )
 
 
@@ -26,6 +26,7 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("--range", metavar="TMIN..TMAX", help="acceptance window for the width (or period); adds a Monte Carlo share inside it")
     p.add_argument("--monte-carlo", metavar="N", type=int, help="run a Monte Carlo of N samples (numpy)")
     add_report_option(p)
+    p.add_argument("--no-picture", action="store_true", help="leave the timing picture out of the text output")
 
 
 def compute(args: argparse.Namespace):
@@ -54,7 +55,13 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         emit_json(result.to_json())
     else:
-        sys.stdout.write(render_text(result.to_json()))
+        j = result.to_json()
+        text = render_text(j)
+        if not args.no_picture:
+            from advisor.picture import family_edge, render_text as picture, terminal_columns, under_numbers
+
+            text = under_numbers(text, picture(j, terminal_columns(), indent=2, edge=family_edge(family)), "findings")
+        sys.stdout.write(text)
     return fail_on_status(args, result)
 
 
@@ -175,19 +182,18 @@ def render_text(j: dict) -> str:
         rows.append(("target", f"{q} {val}: {how}"))
     trig = j.get("trigger")
     if trig:
-        if trig.get("stays_high"):
-            verdict = "the output never falls (each trigger restarts the pulse)"
-        elif trig.get("divide_by") == 1:
-            verdict = f"every trigger fires a pulse (duty {_pct(trig['duty'])})"
-        elif trig.get("divide_by"):
-            from advisor.timing.trigger import ordinal
+        from advisor.presentation import trigger_verdict
 
-            verdict = f"only every {ordinal(trig['divide_by'])} trigger fires (output period {_t(trig['output_period'])})"
-        else:
-            verdict = trig.get("note") or "not applicable"
+        verdict = trigger_verdict(trig, short=True)
+        if trig.get("divide_by") == 1:
+            verdict += f" (duty {_pct(trig['duty'])})"
+        elif trig.get("divide_by") and trig.get("output_period"):
+            verdict += f" (output period {_t(trig['output_period'])})"
         if trig.get("divide_by_range"):
+            from advisor.presentation import every_nth
+
             a, b = trig["divide_by_range"]
-            verdict += f"; 1 in {a} to 1 in {b} within tolerance"
+            verdict += f"; {every_nth(a)} to {every_nth(b)} within tolerance"
         rows.append(("trigger", f"every {_t(trig['period'])}: {verdict}"))
     dist = j.get("distribution")
     if dist:

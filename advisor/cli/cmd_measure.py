@@ -11,7 +11,7 @@ DESCRIPTION = (
     "Read a scope capture saved as CSV (a time column and one or more voltage columns; heading or "
     "none; , ; tab or space delimited; decimal commas; units such as 'Time (us)' in the heading) and "
     "report per channel the high time, low time, period, frequency and duty (median, min, max, count). "
-    "Edges are found with hysteresis (20 %% of the swing by default) so noise and ringing do not count, "
+    "Edges are found with hysteresis (20 % of the swing by default) so noise and ringing do not count, "
     "and timed by interpolation where the trace crosses the threshold. Channels are the voltage columns "
     "numbered from 1, the time column left out. With --trigger-channel and --output-channel it also "
     "reports the trigger-to-output delay, the output width and how many triggers fired a pulse."

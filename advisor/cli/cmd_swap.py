@@ -33,6 +33,7 @@ def register(p: argparse.ArgumentParser) -> None:
     from advisor.cli.options import add_report_option
 
     add_report_option(p)
+    p.add_argument("--no-picture", action="store_true", help="leave the timing picture out of the text output")
 
 
 def compute(args: argparse.Namespace):
@@ -63,5 +64,11 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         emit_json(result.to_json())
     else:
-        sys.stdout.write(render_swap(result.to_json()))
+        j = result.to_json()
+        text = render_swap(j)
+        if not args.no_picture:
+            from advisor.picture import render_text as picture, terminal_columns, under_numbers
+
+            text = under_numbers(text, picture(j, terminal_columns(), indent=2), "  rework")
+        sys.stdout.write(text)
     return fail_on_status(args, result)

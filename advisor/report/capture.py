@@ -162,7 +162,9 @@ def measured_waves(capture: dict, timing: dict | None, trigger: dict | None, *, 
 
 
 def _ordinal(n: int) -> str:
-    return f"{n}{'th' if 10 <= n % 100 <= 20 else {1: 'st', 2: 'nd', 3: 'rd'}.get(n % 10, 'th')}"
+    from advisor.presentation import ordinal
+
+    return ordinal(n)
 
 
 def _channel(capture: dict, role: str) -> str:

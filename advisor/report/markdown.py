@@ -73,7 +73,11 @@ def render_markdown(rep: Report) -> str:
         out += [f"## {heading}", ""] + _table(t) + [""]
     if rep.waves is not None or rep.networks:
         out += ["## Pictures", ""]
-        if rep.waves is not None:
+        if rep.picture:
+            out += ["### Pulse picture", "", "```text"] + rep.picture + ["```", ""]
+            if rep.waves is not None:
+                out += [rep.waves.note, ""]
+        elif rep.waves is not None:
             out += ["### Pulse picture", "", "```text"] + strip(rep.waves) + ["```", "", rep.waves.note, ""]
         if rep.capture is not None and rep.capture.edges:
             out += ["### Captured edge times", "", rep.capture.caption, ""]

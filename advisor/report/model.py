@@ -16,6 +16,7 @@ from dataclasses import dataclass, field, replace
 from typing import Any
 
 from advisor.findings import SEVERITY_ORDER
+from advisor.presentation import every_nth
 from advisor.values import format_code, format_eng
 
 KINDS = ("check", "swap", "alternates", "bom")
@@ -180,6 +181,9 @@ class Report:
     sources: list[SourceView] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
     capture: CaptureView | None = None
+    #: The timing picture as text lines (advisor.picture), for text reports; empty with a
+    #: capture (drawn from the capture's window instead) or nothing to draw.
+    picture: list[str] = field(default_factory=list)
 
 
 # --------------------------------------------------------------------------- helpers
@@ -324,7 +328,7 @@ def build_waves(timing: dict | None, trigger: dict | None, *, mode: str | None, 
         fired = tuple(k % step == 0 for k in range(count))
         intervals = tuple((t, min(t + width, end)) for t, f in zip(triggers, fired) if f)
         note = ("Every trigger starts a pulse." if step == 1 else
-                f"The pulse outlasts the trigger period: only every {step}th trigger starts a pulse; "
+                f"The pulse outlasts the trigger period: only {every_nth(step)} starts a pulse; "
                 "the triggers in between are ignored.")
     rows = [(name, intervals, width)]
     if old is not None:
@@ -533,6 +537,7 @@ def _check(result: dict, catalog: Any) -> Report:
     _with_capture(rep, result.get("capture"), result.get("timing"), result.get("trigger"), mode=mode,
                   name=f"{part} output")
     rep.findings = findings_of(result.get("findings"))
+    _with_picture(rep, result, _catalog_edge(catalog, part))
     nom = ((result.get("timing") or {}).get("nominal") or {})
     first = rep.facts[0].text if rep.facts else "no timing"
     rep.lead = f"{part} ({mode or 'mono'}): nominal {('width ' if 'width' in nom else 'high time ')}{first}; " \
@@ -556,6 +561,19 @@ def _with_capture(rep: Report, capture: Any, timing: dict | None, trigger: dict 
         rep.waves = waves
     rep.capture = view
     rep.facts.extend(view.facts)
+
+
+#: Width of the text picture in a Markdown report (fits a printed page in a monospace font).
+PICTURE_COLUMNS = 78
+
+
+def _with_picture(rep: Report, result: dict, edge: str | None) -> None:
+    """The text picture of ``result`` (one renderer: advisor.picture), unless a capture is drawn."""
+    if rep.capture is not None:
+        return
+    from advisor.picture import picture_rows, render_lines
+
+    rep.picture = render_lines(picture_rows(result, PICTURE_COLUMNS, edge=edge))
 
 
 def _catalog_edge(catalog: Any, fid: str | None) -> str | None:
@@ -594,7 +612,7 @@ def _extras(rep: Report, result: dict, prefix: str) -> None:
         if trig.get("stays_high"):
             rep.notes.append("With this trigger period the output never falls (the part restarts its pulse on every trigger).")
         elif isinstance(trig.get("divide_by"), int) and trig["divide_by"] > 1:
-            rep.notes.append(f"With this trigger period only every {trig['divide_by']}th trigger starts a pulse.")
+            rep.notes.append(f"With this trigger period only {every_nth(trig['divide_by'])} starts a pulse.")
     tol = result.get("tolerances")
     if isinstance(tol, dict) and (_num(tol.get("r_tol")) is not None or _num(tol.get("c_tol")) is not None):
         d = tol.get("defaulted")
@@ -640,6 +658,7 @@ def _swap(result: dict, catalog: Any) -> Report:
     _with_capture(rep, result.get("capture"), new.get("timing"), trig, mode=mode, name=f"{nfam} output",
                   old=(f"{ofam} output", old.get("timing"), old.get("trigger")), fitted=ofam)
     rep.findings = findings_of(result.get("findings"))
+    _with_picture(rep, result, edge)
     rep.pin_map, rep.pin_tables, rep.pin_notes = pin_tables(result.get("pin_map"))
     rep.rework = rework_steps(result.get("rework"))
     rep.notes[:0] = [str(r) for r in result.get("reasons") or []]

@@ -87,20 +87,14 @@ def render_swap(j: dict, *, title: str | None = None, findings: bool = True) -> 
     lines.append(f"  pins {pm['old_package']} → {pm['new_package']}: {pairs}" + ("   (* moved)" if moved else "   (same pins)"))
     pol = pm["polarity"]
     if pol.get("edge"):
-        lines.append(f"  edge {pol['edge']}: {pol.get('old_input') or '—'} → {pol.get('new_input') or 'no input'}"
-                     + ("" if not pol.get("new_enable") else
-                        "   enables: " + ", ".join(f"{k} {v}" for k, v in pol["new_enable"].items())))
+        from advisor.presentation import edge_route
+
+        lines.append(f"  edge {edge_route(pol, pm)}")
     trig = j.get("trigger")
     if trig:
-        if trig.get("stays_high"):
-            verdict = "output never falls"
-        elif trig.get("divide_by") == 1:
-            verdict = "every trigger fires"
-        elif trig.get("divide_by"):
-            verdict = f"1 pulse per {trig['divide_by']} triggers"
-        else:
-            verdict = trig.get("note") or "—"
-        lines.append(f"  trig every {_t(trig['period'])}: {verdict}")
+        from advisor.presentation import trigger_verdict
+
+        lines.append(f"  trig every {_t(trig['period'])}: {trigger_verdict(trig, short=True)}")
     if j["class"] == "unsuitable":
         lines.append("  rework: none advised: this part cannot do the job as the circuit stands (see why)")
     else:

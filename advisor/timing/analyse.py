@@ -69,6 +69,7 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
         w = timing["nominal"].get("width")
         trig = analyse_trigger(
             family, model.mode, circuit.trigger.period, w, timing["min"].get("width"), timing["max"].get("width"),
+            edge=circuit.trigger.edge,
         )
     dist = None
     window = circuit.target.range if circuit.target is not None else None

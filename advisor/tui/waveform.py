@@ -219,8 +219,38 @@ def _rows(levels: list[bool]) -> tuple[str, str]:
     return "".join(top), "".join(bottom)
 
 
-def draw(result: dict | None, width: int = 80) -> Text:
-    """The picture as Rich text, ``width`` characters wide (labels included)."""
+#: Colour of each row of :func:`advisor.picture.picture_rows`.
+_ROLE_STYLE = {"trigger": "trigger", "old": "dim", "new": "output", "measured": "measured", "axis": "dim",
+               "ticks": "dim", "band": "key", "legend": "dim", "caption": "key"}
+_MARK_STYLE = {"▲": "good", "×": "skip", "↻": "warning"}
+
+
+def draw(result: dict | None, width: int = 80, edge: str | None = None) -> Text:
+    """The picture as Rich text, ``width`` characters wide (labels included).
+
+    Drawn by the one text renderer (:mod:`advisor.picture`) from the engine's pulse
+    schedule; a result with a scope capture is laid over the capture's own window
+    (:func:`lay_out`), with the measured output beside the prediction.
+    """
+    from advisor.report.capture import usable
+
+    if isinstance(result, dict) and not usable(result.get("capture")):
+        from advisor.picture import LABEL_W as PIC_LABEL, picture_rows
+
+        rows = picture_rows(result, width, edge=edge)
+        if not rows:
+            return Text("No timing to draw yet: fill in the part, R and C.", style=STYLE["dim"])
+        text = Text()
+        for i, row in enumerate(rows):
+            if i:
+                text.append("\n")
+            text.append(f"{row.label:<{PIC_LABEL}}", style=STYLE["dim"])
+            if row.role == "marks":
+                for ch in row.text:
+                    text.append(ch, style=STYLE[_MARK_STYLE[ch]] if ch in _MARK_STYLE else None)
+            else:
+                text.append(row.text, style=STYLE[_ROLE_STYLE.get(row.role, "key")])
+        return text
     lay = lay_out(result)
     if lay is None:
         return Text("No timing to draw yet: fill in the part, R and C.", style=STYLE["dim"])
@@ -264,6 +294,8 @@ class TimingPicture(Widget):
 
     DEFAULT_CSS = "TimingPicture { height: auto; }"
     result: reactive[dict | None] = reactive(None, layout=True)
+    #: The trigger's active edge when the result does not say (the part's first input).
+    edge: reactive[str | None] = reactive(None, layout=True)
 
     def render(self) -> Text:
-        return draw(self.result, max(30, self.content_size.width or 80))
+        return draw(self.result, max(30, self.content_size.width or 80), self.edge)

@@ -214,8 +214,10 @@ def pin_map_view(pin_map) -> Group | Text:
     for extra in pin_map.get("additions") or []:
         out.append(Text(f"add: {extra.get('what', extra) if isinstance(extra, dict) else extra}", style=STYLE["key"]))
     pol = pin_map.get("polarity")
-    if pol:
-        out.append(Text(f"trigger polarity: {pol if not isinstance(pol, dict) else '; '.join(f'{k} {v}' for k, v in pol.items())}", style=STYLE["key"]))
+    if isinstance(pol, dict) and pol.get("edge"):
+        from advisor.presentation import edge_route
+
+        out.append(Text(f"trigger: {edge_route(pol, pin_map)}", style=STYLE["key"]))
     for note in pin_map.get("notes") or []:
         out.append(Text(f"note: {note}", style=STYLE["dim"]))
     return Group(*out)
@@ -421,7 +423,13 @@ class WorkspaceScreen(Screen):
             rework.update(rework_view(data.get("rework")))
         else:
             timing.update(Group(timing_table(data.get("timing")), values_line(data.get("values")), *_extras(data)))
-        picture.result = out.timing_json
+        from advisor.picture import family_edge
+        from advisor.report.capture import usable
+
+        fam = self.app.catalog.families.get(str(out.new_part or out.part or "").upper())
+        picture.edge = family_edge(fam)
+        # The swap's own JSON carries the fitted part's row; a capture is drawn on its window.
+        picture.result = out.timing_json if usable(data.get("capture")) else data
         findings.update(findings_view(out.findings))
 
     # --- actions --------------------------------------------------------------------
