@@ -7,6 +7,7 @@ REQUIRE_EXTERNAL=1 (CI must install it).
 from __future__ import annotations
 
 import os
+import re
 import shutil
 import struct
 import subprocess
@@ -116,3 +117,32 @@ def test_swap_report_renders_in_headless_chromium(tmp_path, capsys):
     assert (width, height) == (1000, 1400)
     # Not a blank page: a share of the pixels (filters undone) are not white.
     assert _drawn_share(pixels, len(pixels) // (width * height)) > 0.02
+
+
+def _pdfinfo() -> str:
+    path = shutil.which("pdfinfo")
+    require_external("pdfinfo", path is not None, "poppler-utils")
+    return path  # type: ignore[return-value]
+
+
+def test_swap_report_prints_on_two_a4_pages_bench_sheet_first(tmp_path, capsys):
+    """The issue's example prints to PDF in headless Chromium on at most two A4 pages,
+    the bench sheet (verdict, values, pin moves, steps, ties) on the first."""
+    browser, pdfinfo = _chromium(), _pdfinfo()
+    report = tmp_path / "x.html"
+    assert main(["swap", "74121", "74HC221", "--r", "10k", "--c", "10n", "--vcc", "5",
+                 "--trigger-period", "20us", "--report", str(report)]) == 0
+    capsys.readouterr()
+    pdf = tmp_path / "x.pdf"
+    res = _run(browser, f"--print-to-pdf={pdf}", "--no-pdf-header-footer", report.as_uri())
+    assert pdf.exists(), res.stderr[-500:]
+    info = subprocess.run([pdfinfo, str(pdf)], capture_output=True, text=True, check=True).stdout
+    pages = int(next(line.split()[-1] for line in info.splitlines() if line.startswith("Pages:")))
+    assert 1 <= pages <= 2
+    # A4 is 210 x 297 mm, 595.3 x 841.9 points (ISO 216).
+    size = next(line for line in info.splitlines() if line.startswith("Page size:"))
+    w, h = (float(v) for v in re.findall(r"([\d.]+) x ([\d.]+)", size)[0])
+    assert w == pytest.approx(595.3, abs=1) and h == pytest.approx(841.9, abs=1)
+    text = report.read_text(encoding="utf-8")
+    order = [text.index(f'id="{sid}"') for sid in ("bench-sheet", "pins", "bench", "findings")]
+    assert order == sorted(order)

@@ -257,6 +257,44 @@ def _draw_one_shot(d, elm, net: Network) -> None:
     d += elm.Line().to(top)
     d += elm.Vdd().at(top).label(_supply_label(net))
     d += elm.Ground().at(ic.GND)
+    _, cext_label = _pin(net, "CEXT")
+    if any(w in cext_label.upper() for w in ("VSS", "GND")):  # e.g. a 4538's C pin goes to ground
+        d += elm.Line().at(a).left(0.8)
+        d += elm.Ground()
+    _draw_ties(d, elm, net, ic, left)
+
+
+def _draw_ties(d, elm, net: Network, ic, left: list[str]) -> None:
+    """Inputs held at a level, drawn to a supply rail and a ground rail left of the part;
+    the trigger input drawn as the signal's entry."""
+    tied = {f: lvl for f, lvl in net.ties if f in left}
+    x0 = min(getattr(ic, f)[0] for f in left) - 0.6  # end of the pin leads
+    rails = {"VCC": x0 - 1.0, "GND": x0 - 2.0}
+    for level in ("VCC", "GND"):
+        funcs = [f for f, lvl in tied.items() if lvl == level]
+        if not funcs:
+            continue
+        x = rails[level]
+        ys = [getattr(ic, f)[1] for f in funcs]
+        for f in funcs:
+            d += elm.Line().at(getattr(ic, f)).tox(x)
+            d += elm.Dot().at((x, getattr(ic, f)[1]))
+        # A rail runs away from the trigger's entry so the two never cross: up to a supply
+        # mark, or down to a ground mark (a ground mark drawn above when the trigger enters below).
+        trig_y = getattr(ic, net.trigger_in)[1] if net.trigger_in in left and net.trigger_in not in tied else None
+        up = level == "VCC"
+        if trig_y is not None and (trig_y > min(ys) if up else trig_y < max(ys)):
+            up = not up
+        end = max(ys) + 1.0 if up else min(ys) - 1.0
+        d += elm.Line().at((x, min(ys) if up else max(ys))).toy(end)
+        if level == "VCC":
+            mark = elm.Vdd().at((x, end)) if up else elm.Vss().at((x, end))
+            d += mark.label("VCC")
+        else:
+            d += elm.Ground().at((x, end)) if not up else elm.Ground().at((x, end)).left()
+    if net.trigger_in in left and net.trigger_in not in tied:
+        d += elm.Line().at(getattr(ic, net.trigger_in)).tox(rails["GND"] - 0.6)
+        d += elm.Dot(open=True).label("trigger in", loc="left")
 
 
 def _draw_555(d, elm, net: Network) -> None:
@@ -310,3 +348,14 @@ def _draw_555(d, elm, net: Network) -> None:
         d += elm.Capacitor(polar=c.value >= 1e-6).down().label(_label(c), loc="bottom")
     d += elm.Ground()
     d += elm.Ground().at(ic.GND)
+    # RESET held high (it would otherwise hold the timer off); CONT decoupled to ground:
+    # the usual 10 nF (common practice; the makers' application circuits show it).
+    d += elm.Line().at(ic.RESET).left(0.9)
+    d += elm.Line().up(0.9)
+    d += elm.Vdd().label("VCC")
+    d += elm.Line().at(ic.CONT).left(0.9)
+    d += elm.Capacitor().down().label("10n", loc="bottom")
+    d += elm.Ground()
+    if not astable:
+        d += elm.Line().at(ic.TRIG).left(1.8)
+        d += elm.Dot(open=True).label("trigger in", loc="left")

@@ -64,7 +64,56 @@ ol.bench li { margin: .3rem 0; } ol.bench .tag { color: var(--accent); }
 .cautions h2 { border: 0; margin-top: .6rem; color: var(--danger); }
 .notes li { color: var(--muted); }
 footer { margin-top: 2.5rem; color: var(--muted); font-size: .8rem; border-top: 1px solid var(--line); padding-top: .5rem; }
-@media print { main { max-width: none; } figure { break-inside: avoid; } }
+.sheet-top { display: flex; flex-wrap: wrap; gap: 0 2rem; }
+.sheet-top table { min-width: 0; }
+table.job { width: 100%; } table.job td.fill { border-bottom: 1px solid var(--ink); min-width: 12rem; }
+.short-caution { color: var(--danger); font-size: .9rem; }
+.pic-pinmoves svg { display: block; max-width: 100%; height: auto; }
+"""
+
+#: Print: A4, small type, the bench sheet on the first page, findings after it, pictures
+#: and tables kept whole, nothing the screen needs (backgrounds, wide margins).
+_PRINT_CSS = """
+@page { size: A4; margin: 8mm 10mm; }
+@media print {
+  html { font-size: 7.4pt; }
+  body { font-size: 7.4pt; line-height: 1.2; }
+  main { max-width: none; padding: 0; }
+  header { margin-bottom: .4rem; padding-bottom: .25rem; border-bottom-width: 2px; }
+  h1 { font-size: 12pt; margin: 0 0 .1rem; } h2 { font-size: 9.5pt; margin: .5rem 0 .2rem; }
+  h3 { font-size: 8pt; margin: .3rem 0 .15rem; }
+  .lead, .kicker { font-size: 7.6pt; }
+  th, td { padding: .05rem .35rem; }
+  table { margin: .15rem 0 .3rem; }
+  figure { break-inside: avoid; padding: .2rem; border: 0; }
+  figure svg.pic { max-height: 44mm; width: auto; }
+  .pic-pinmoves svg { max-height: 40mm; width: auto; }
+  #parts, #glance.swap-notes { display: none; }
+  .notes { columns: 2; column-gap: 1.2rem; }
+  #sources td, #sources th { font-size: 6.4pt; padding: 0 .3rem; }
+  #sources td:nth-child(2), #sources th:nth-child(2) { display: none; }
+  .src, .rule { font-size: 6.6pt; }
+  figcaption { font-size: 7pt; margin-top: .1rem; }
+  .pics { gap: .3rem; grid-template-columns: 1fr 1fr; }
+  table.network { display: none; }
+  #bench-sheet { break-after: auto; }
+  ol.findings { columns: 2; column-gap: 1.2rem; }
+  li.finding { break-inside: avoid; }
+  .cautions ul { columns: 2; column-gap: 1.2rem; margin: 0; padding-left: 1rem; }
+  #sources table { width: 100%; }
+  ol.bench li { margin: .05rem 0; }
+  ol.bench, ul.notes { padding-left: 1.3rem; margin: .1rem 0; }
+  .sheet-top { gap: 0 1rem; flex-wrap: nowrap; }
+  li.finding { padding: .05rem .35rem; margin: .1rem 0; border-left-width: 3px; font-size: 6.6pt; line-height: 1.2; }
+  .cautions li, .notes li, figcaption { font-size: 6.6pt; line-height: 1.2; }
+  .cautions h2 { margin: .2rem 0 .1rem; }
+  li.finding p { margin: 0; }
+  .cautions { padding: 0 .5rem .2rem; }
+  .cautions li, .notes li { margin: 0; }
+  table.sources td, table.sources th { font-size: 6.8pt; }
+  footer { margin-top: .2rem; padding-top: .1rem; }
+  #sources p.src { margin: 0; }
+}
 """
 
 
@@ -89,7 +138,15 @@ def _table(t: Table, cls: str) -> str:
 
 def _pictures(rep: Report) -> str:
     figs = []
-    if rep.waves is not None:
+    if rep.picture_source is not None:
+        from advisor.report.timing_svg import timing_svg_of
+
+        result, edge = rep.picture_source
+        names = (f"{rep.old_part} (fitted)", f"{rep.new_part} (new)") if rep.kind == "swap" else ("", "output")
+        svg = timing_svg_of(result, edge=edge, names=names)
+        figs.append(f'<figure class="pic-timing">{svg}<figcaption>Timing diagram from the engine\'s pulse schedule: '
+                    f'{escape(rep.picture_caption)}</figcaption></figure>')
+    elif rep.waves is not None:
         svg = diagrams.timing_svg(rep.waves)
         cap = rep.capture
         measured = cap is not None and rep.waves.measured is not None
@@ -147,13 +204,57 @@ def _findings(rep: Report) -> str:
     return "".join(out)
 
 
+def _job_fields(rep: Report) -> str:
+    """Fill-in fields for the bench: date, board, reference designator, sign-off."""
+    import datetime
+
+    written = datetime.date.today().isoformat()
+    cells = [("Report written", written), ("Date of rework", ""), ("Board", ""), ("Reference designator", ""),
+             ("Reworked by", ""), ("Checked and signed off", "")]
+    rows = "".join(f'<tr><th>{escape(k)}</th><td class="fill">{escape(v)}</td></tr>' for k, v in cells)
+    return f'<table class="job"><tbody>{rows}</tbody></table>'
+
+
+def _bench_sheet(rep: Report) -> str:
+    """What the bench needs, in the order it is done: values, pin moves, steps, ties, trimmer."""
+    out = ['<section id="bench-sheet"><h2>Bench sheet</h2><div class="sheet-top">']
+    if rep.facts:
+        out.append('<div><h3>Values</h3>' + _q_table(rep.facts, "facts") + "</div>")
+    new_side = [qs for heading, qs in rep.parts if "replacement" in heading or "as fitted" in heading]
+    if new_side and new_side[0]:
+        out.append(f'<div><h3>Fit on the {escape(rep.new_part or "part")}</h3>'
+                   + _q_table([q for q in new_side[0] if "timing" not in q.key], "part-values") + "</div>")
+    if rep.pin_map is not None:
+        out.append('<section id="pins"><h3>Pin moves</h3>' + _table(rep.pin_map, "pin-map") + "</section>")
+    out.append("</div>")
+    if rep.trimmer:
+        out.append(f'<p class="trimmer"><strong>Trimmer:</strong> {escape(rep.trimmer)}</p>')
+    if rep.pin_moves_svg:
+        out.append(f'<figure class="pic-pinmoves">{rep.pin_moves_svg}</figure>')
+    if rep.rework:
+        out.append('<section id="bench"><h3>Steps, in order</h3><ol class="bench">' + "".join(
+            f'<li data-action="{escape(a)}">' + (f'<span class="tag">{escape(a)}</span>' if a else "") + f"{escape(t)}</li>"
+            for a, t in rep.rework) + "</ol></section>")
+    if rep.pin_tables:
+        out.append('<div class="sheet-top">' + "".join(
+            f'<div><h3>{escape(heading)}</h3>{_table(t, "pin-extra")}</div>' for heading, t in rep.pin_tables) + "</div>")
+    if rep.pin_notes:
+        out.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.pin_notes) + "</ul>")
+    out.append('<p class="short-caution">Work unpowered; mind capacitor polarity and the part\'s absolute '
+               'maximum ratings; the cautions at the end of this report apply.</p>')
+    out.append(_job_fields(rep))
+    out.append("</section>")
+    return "".join(out)
+
+
 def render_html(rep: Report) -> str:
-    """The whole page as text."""
+    """The whole page as text. A swap opens with its bench sheet (what is done at the
+    bench, in order); findings, pictures, details and sources follow."""
     parts = [
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
         '<meta name="viewport" content="width=device-width, initial-scale=1">',
-        f"<title>{escape(rep.title)}</title><style>{_CSS}</style></head><body><main>",
+        f"<title>{escape(rep.title)}</title><style>{_CSS}{_PRINT_CSS}</style></head><body><main>",
         f'<header><p class="kicker">retime · {escape(rep.kind)} report</p><h1>{escape(rep.title)}</h1>',
         f'<p class="lead">{escape(rep.lead)}</p>',
     ]
@@ -162,34 +263,48 @@ def render_html(rep: Report) -> str:
         parts.append(f'<p>Outcome: <span class="verdict" data-class="{escape(rep.verdict)}">{escape(rep.verdict)}</span> '
                      f'{escape(words)}</p>')
     parts.append("</header>")
-    if rep.facts or rep.notes:
-        parts.append('<section id="glance"><h2>At a glance</h2>' + _q_table(rep.facts, "facts"))
+    if rep.kind == "swap":
+        parts.append(_bench_sheet(rep))
+        parts.append(_findings(rep))
+        parts.append(_pictures(rep))
         if rep.notes:
-            parts.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.notes) + "</ul>")
-        parts.append("</section>")
-    if any(qs for _, qs in rep.parts):
-        parts.append('<section id="parts"><h2>Parts and values</h2>')
-        for heading, qs in rep.parts:
-            if qs:
-                parts.append(f"<h3>{escape(heading)}</h3>" + _q_table(qs, "part-values"))
-        parts.append("</section>")
-    for heading, t in rep.extra_tables:
-        parts.append(f'<section class="table"><h2>{escape(heading)}</h2>{_table(t, "extra")}</section>')
-    parts.append(_pictures(rep))
-    parts.append(_findings(rep))
-    if rep.pin_map is not None or rep.pin_tables:
-        parts.append('<section id="pins"><h2>Pin moves</h2>')
-        if rep.pin_map is not None:
-            parts.append(_table(rep.pin_map, "pin-map"))
-        for heading, t in rep.pin_tables:
-            parts.append(f"<h3>{escape(heading)}</h3>{_table(t, 'pin-extra')}")
-        if rep.pin_notes:
-            parts.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.pin_notes) + "</ul>")
-        parts.append("</section>")
-    if rep.rework:
-        parts.append('<section id="bench"><h2>Bench steps</h2><ol class="bench">' + "".join(
-            f'<li data-action="{escape(a)}">' + (f'<span class="tag">{escape(a)}</span>' if a else "") + f"{escape(t)}</li>"
-            for a, t in rep.rework) + "</ol></section>")
+            parts.append('<section id="glance" class="swap-notes"><h2>Notes</h2><ul class="notes">'
+                         + "".join(f"<li>{escape(n)}</li>" for n in rep.notes) + "</ul></section>")
+        if any(qs for _, qs in rep.parts):
+            parts.append('<section id="parts"><h2>Both parts</h2><div class="sheet-top">')
+            for heading, qs in rep.parts:
+                if qs:
+                    parts.append(f"<div><h3>{escape(heading)}</h3>" + _q_table(qs, "part-values") + "</div>")
+            parts.append("</div></section>")
+    else:
+        if rep.facts or rep.notes:
+            parts.append('<section id="glance"><h2>At a glance</h2>' + _q_table(rep.facts, "facts"))
+            if rep.notes:
+                parts.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.notes) + "</ul>")
+            parts.append("</section>")
+        if any(qs for _, qs in rep.parts):
+            parts.append('<section id="parts"><h2>Parts and values</h2>')
+            for heading, qs in rep.parts:
+                if qs:
+                    parts.append(f"<h3>{escape(heading)}</h3>" + _q_table(qs, "part-values"))
+            parts.append("</section>")
+        for heading, t in rep.extra_tables:
+            parts.append(f'<section class="table"><h2>{escape(heading)}</h2>{_table(t, "extra")}</section>')
+        parts.append(_pictures(rep))
+        parts.append(_findings(rep))
+        if rep.pin_map is not None or rep.pin_tables:
+            parts.append('<section id="pins"><h2>Pin moves</h2>')
+            if rep.pin_map is not None:
+                parts.append(_table(rep.pin_map, "pin-map"))
+            for heading, t in rep.pin_tables:
+                parts.append(f"<h3>{escape(heading)}</h3>{_table(t, 'pin-extra')}")
+            if rep.pin_notes:
+                parts.append('<ul class="notes">' + "".join(f"<li>{escape(n)}</li>" for n in rep.pin_notes) + "</ul>")
+            parts.append("</section>")
+        if rep.rework:
+            parts.append('<section id="bench"><h2>Bench steps</h2><ol class="bench">' + "".join(
+                f'<li data-action="{escape(a)}">' + (f'<span class="tag">{escape(a)}</span>' if a else "") + f"{escape(t)}</li>"
+                for a, t in rep.rework) + "</ol></section>")
     parts.append('<section id="cautions" class="cautions"><h2>Take care</h2><ul>'
                  + "".join(f"<li>{escape(c)}</li>" for c in rep.cautions) + "</ul></section>")
     if rep.sources:

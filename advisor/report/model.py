@@ -101,6 +101,9 @@ class Network:
     pot_setting: float | None
     package: str = ""
     pins: dict[str, list[tuple[int, str]]] = field(default_factory=dict)  # function -> [(pin, label)]
+    #: Section-1 inputs held at a level: (function, "VCC" | "GND"), as the rework ties them.
+    ties: tuple[tuple[str, str], ...] = ()
+    trigger_in: str | None = None  # the function the trigger signal drives
 
 
 @dataclass(frozen=True)
@@ -184,6 +187,13 @@ class Report:
     #: The timing picture as text lines (advisor.picture), for text reports; empty with a
     #: capture (drawn from the capture's window instead) or nothing to draw.
     picture: list[str] = field(default_factory=list)
+    #: What the HTML timing diagram is drawn from (the result JSON and the wired edge).
+    picture_source: tuple[dict, str | None] | None = None
+    picture_caption: str = ""
+    old_part: str = ""  # the fitted part (swap)
+    trimmer: str = ""  # where to set the variable resistor, in words
+    pin_moves_svg: str = ""  # the pin-move picture (advisor.report.pinmove), swaps only
+    new_part: str = ""  # the checked part, or the replacement (swap)
 
 
 # --------------------------------------------------------------------------- helpers
@@ -247,7 +257,8 @@ _ITEM_PINS = {
 }
 
 
-def build_network(values: dict | None, part: str | None, mode: str | None, catalog: Any, prefix: str = "") -> Network | None:
+def build_network(values: dict | None, part: str | None, mode: str | None, catalog: Any, prefix: str = "",
+                  *, pin_map: Any = None, edge: str | None = None) -> Network | None:
     items = network_items(values, prefix)
     if not items or not part:
         return None
@@ -272,8 +283,34 @@ def build_network(values: dict | None, part: str | None, mode: str | None, catal
             if func in ("VCC", "GND") and func not in pins:
                 where.append(func)
         placed.append(NetItem(it.ref, it.role, it.value, it.unit, it.text, it.code, tuple(where), it.key))
+    ties, trigger_in = _ties(fam, function, mode, pin_map, edge)
     return Network(part, mode, function, tuple(placed), _num((values or {}).get("vcc")),
-                   _num((values or {}).get("pot_setting")), package, pins)
+                   _num((values or {}).get("pot_setting")), package, pins, ties, trigger_in)
+
+
+def _ties(fam: Any, function: str, mode: str, pin_map: Any, edge: str | None) -> tuple[tuple[tuple[str, str], ...], str | None]:
+    """Section-1 ties and the trigger's input: the swap's own ties when it has a pin map,
+    else the enable levels of the part's input for the wired edge (a 555's RESET held
+    high, common practice)."""
+    if function == "timer-555":
+        return (("RESET", "VCC"),), ("TRIG" if mode != "astable" else None)
+    ties: list[tuple[str, str]] = []
+    trigger_in = None
+    if isinstance(pin_map, dict) and isinstance(pin_map.get("ties"), list):
+        for t in pin_map["ties"]:
+            if isinstance(t, dict) and t.get("channel") in (1, None) and t.get("function"):
+                ties.append((str(t["function"]), "GND" if str(t.get("level")).upper() in ("GND", "LOW") else "VCC"))
+        pol = pin_map.get("polarity")
+        if isinstance(pol, dict) and pol.get("new_input"):
+            trigger_in = "TRIG_FALL" if pol.get("edge") == "falling" else "TRIG_RISE"
+        return tuple(ties), trigger_in
+    if fam is None or not fam.behaviour.triggers:
+        return (), None
+    wanted = {"falling": ("falling", "level-low"), "rising": ("rising", "level-high")}.get(edge or "", ())
+    trig = next((t for t in fam.behaviour.triggers if t.edge in wanted), fam.behaviour.triggers[0])
+    for func, level in trig.enable.items():
+        ties.append((func, "VCC" if level == "high" else "GND"))
+    return tuple(ties), trig.function
 
 
 def build_waves(timing: dict | None, trigger: dict | None, *, mode: str | None, name: str,
@@ -425,11 +462,16 @@ def pin_tables(pm: Any) -> tuple[Table | None, list[tuple[str, Table]], list[str
             return "shared"
         return str(a) if b in (None, a) else f"{a} → {b}"
 
-    links = Table(("section", "function", f"old pin ({pm.get('old_package', '')})", f"new pin ({pm.get('new_package', '')})", "moves", "note"),
-                  tuple((ch(l.get("old_channel"), l.get("new_channel")), str(l.get("function", "")),
-                         pin(l.get("old_pin"), l.get("old_name")), pin(l.get("new_pin"), l.get("new_name")),
-                         "yes" if l.get("moved") else "no", str(l.get("note") or ""))
-                        for l in pm.get("links") or [] if isinstance(l, dict)))
+    from advisor.presentation import function_words
+
+    rows = tuple((ch(l.get("old_channel"), l.get("new_channel")), function_words(l.get("function")),
+                  pin(l.get("old_pin"), l.get("old_name")), pin(l.get("new_pin"), l.get("new_name")),
+                  "yes" if l.get("moved") else "no", str(l.get("note") or ""))
+                 for l in pm.get("links") or [] if isinstance(l, dict))
+    head = ("section", "function", f"old pin ({pm.get('old_package', '')})", f"new pin ({pm.get('new_package', '')})", "moves", "note")
+    if not any(r[5] for r in rows):  # no link carries a note: leave the empty column out
+        rows, head = tuple(r[:5] for r in rows), head[:5]
+    links = Table(head, rows)
     more: list[tuple[str, Table]] = []
     ties = [t for t in pm.get("ties") or [] if isinstance(t, dict)]
     if ties:
@@ -439,7 +481,7 @@ def pin_tables(pm: Any) -> tuple[Table | None, list[tuple[str, Table]], list[str
     un = [u for u in pm.get("unmatched") or [] if isinstance(u, dict)]
     if un:
         more.append(("Old pins with no counterpart", Table(("old pin", "function", "what to do", "blocks the swap"), tuple(
-            (pin(u.get("old_pin"), u.get("old_name")), str(u.get("function", "")), str(u.get("what", "")),
+            (pin(u.get("old_pin"), u.get("old_name")), function_words(u.get("function")), str(u.get("what", "")),
              "yes" if u.get("blocking") else "no") for u in un))))
     adds = [a for a in pm.get("additions") or [] if isinstance(a, dict)]
     if adds:
@@ -524,13 +566,14 @@ def _cautions(families: list[str], catalog: Any, nets: list[Network]) -> list[st
 def _check(result: dict, catalog: Any) -> Report:
     part = str(result.get("part", "?"))
     mode = result.get("mode")
-    rep = Report("check", f"Timing check: {part}", "")
+    rep = Report("check", f"Timing check: {part}", "", new_part=part)
     rep.facts = timing_quantities(result.get("timing"), "")
     values = result.get("values") or {}
     rep.parts.append((f"{part} as fitted", [quantity(i.ref, i.value, i.unit, i.key) for i in network_items(values)]
                       + ([quantity("supply", values["vcc"], "V", "values.vcc")] if _num(values.get("vcc")) else [])))
     _extras(rep, result, "")
-    net = build_network(values, part, mode, catalog)
+    net = build_network(values, part, mode, catalog, edge=(result.get("trigger") or {}).get("edge")
+                        if isinstance(result.get("trigger"), dict) else _catalog_edge(catalog, part))
     rep.networks = [net] if net else []
     rep.waves = build_waves(result.get("timing"), result.get("trigger"), mode=mode, name=f"{part} output",
                             edge=_catalog_edge(catalog, part))
@@ -574,6 +617,14 @@ def _with_picture(rep: Report, result: dict, edge: str | None) -> None:
     from advisor.picture import picture_rows, render_lines
 
     rep.picture = render_lines(picture_rows(result, PICTURE_COLUMNS, edge=edge))
+    if rep.picture:
+        rep.picture_source = (result, edge)
+        from advisor.presentation import trigger_verdict
+
+        trig = result.get("trigger") or ((result.get("new") or {}).get("trigger") if isinstance(result.get("new"), dict) else None)
+        rep.picture_caption = (f"triggers every {format_eng(trig['period'], 's', 4)}: {trigger_verdict(trig)}."
+                               if isinstance(trig, dict) and _num(trig.get("period")) else
+                               "one trigger and the pulse it starts (no trigger period given).")
 
 
 def _catalog_edge(catalog: Any, fid: str | None) -> str | None:
@@ -625,6 +676,21 @@ def _extras(rep: Report, result: dict, prefix: str) -> None:
     rep.notes += [str(a) for a in result.get("assumptions") or [] if str(a) not in rep.notes]
 
 
+def _trimmer(target: Any, values: Any) -> str:
+    """Where the variable resistor goes: the target's setting, else the one computed with."""
+    pot = _num((values or {}).get("pot")) if isinstance(values, dict) else None
+    if not pot:
+        return ""
+    code = format_code(pot, "resistance")
+    if isinstance(target, dict) and _num(target.get("setting")) is not None:
+        return (f"set the {code} trimmer to {target['setting'] * 100:.3g} % of its travel for the target "
+                f"(then trim on the scope).")
+    setting = _num((values or {}).get("pot_setting"))
+    if setting is not None:
+        return f"the {code} trimmer was computed at {setting * 100:.3g} % of its travel; trim on the scope."
+    return f"the {code} trimmer: trim on the scope for the wanted pulse."
+
+
 def _count(findings: list[FindingView]) -> str:
     if not findings:
         return "no findings"
@@ -637,7 +703,7 @@ def _swap(result: dict, catalog: Any) -> Report:
     new = result.get("new") or {}
     ofam, nfam = str(old.get("family", "?")), str(new.get("family", "?"))
     cls = result.get("class")
-    rep = Report("swap", f"Replacing {ofam} with {nfam}", "", verdict=cls)
+    rep = Report("swap", f"Replacing {ofam} with {nfam}", "", verdict=cls, old_part=ofam, new_part=nfam)
     rep.facts = timing_quantities(new.get("timing"), "new.")
     for label, side, pre in ((f"{ofam} (fitted now)", old, "old."), (f"{nfam} (replacement)", new, "new.")):
         vals = side.get("values") or {}
@@ -648,7 +714,7 @@ def _swap(result: dict, catalog: Any) -> Report:
         rep.parts.append((label, qs))
     _extras(rep, {k: result.get(k) for k in ("adjust", "target", "calibration", "trigger", "tolerances")}, "")
     mode = new.get("mode") or result.get("mode")
-    nets = [build_network(new.get("values"), nfam, mode, catalog, "new.")]
+    nets = [build_network(new.get("values"), nfam, mode, catalog, "new.", pin_map=result.get("pin_map"))]
     rep.networks = [n for n in nets if n]
     trig = result.get("trigger") or new.get("trigger")
     pol = (result.get("pin_map") or {}).get("polarity") if isinstance(result.get("pin_map"), dict) else None
@@ -661,6 +727,11 @@ def _swap(result: dict, catalog: Any) -> Report:
     _with_picture(rep, result, edge)
     rep.pin_map, rep.pin_tables, rep.pin_notes = pin_tables(result.get("pin_map"))
     rep.rework = rework_steps(result.get("rework"))
+    from advisor.report.pinmove import pin_moves, pin_moves_svg
+
+    moves = pin_moves(result, catalog)
+    rep.pin_moves_svg = pin_moves_svg(moves) if moves is not None else ""
+    rep.trimmer = _trimmer(result.get("target"), new.get("values"))
     rep.notes[:0] = [str(r) for r in result.get("reasons") or []]
     rep.notes.append(f"Lifecycle: {ofam} {old.get('status') or 'unknown'}, {nfam} {new.get('status') or 'unknown'}.")
     kept = result.get("kept")
