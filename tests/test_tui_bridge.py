@@ -64,11 +64,18 @@ _GOOD = {
     "capacitance": ["", "100p", "2n2", "10n", "1u"],
     "fraction": ["", "0", "50%", "1"],
     "time": ["", "1us", "64us", "1ms"],
+    "target": ["", "100us", "1kHz"],
+    "series": ["", "E12", "E96"],
+    "text": [""],
 }
 
 
+def _good(f):
+    return f.choices + ("",) if f.kind == "choice" else _GOOD[f.kind]
+
+
 @settings(max_examples=40, deadline=None)
-@given(st.fixed_dictionaries({f.key: st.sampled_from(_GOOD[f.kind]) for f in FIELDS if f.kind != "part"}),
+@given(st.fixed_dictionaries({f.key: st.sampled_from(_good(f)) for f in FIELDS if f.kind != "part"}),
        st.sampled_from(["", "74HC221", "NE555", "CD4538B"]))
 def test_readable_forms_never_crash_the_engine(catalog, form, new):
     # Property: values that all read still give a result or a one-line message for check and swap.

@@ -76,10 +76,26 @@ def test_workspace_with_a_bad_value(snap_compare):
     async def type_form(pilot) -> None:
         await pilot.press("f3")
         await pilot.pause()
-        await pilot.press(*"74HC221", "tab", "tab", "5", "tab", "tab", *"4x7")
+        await pilot.press(*"74HC221", "tab", "tab", "tab", "5", "tab", "tab", *"4x7")
         await pilot.pause(0.3)
 
     assert snap_compare(Workbench(tiny_catalog()), run_before=type_form, terminal_size=SIZE)
+
+
+@pytest.mark.parametrize("size", [(80, 24), (120, 40)])
+def test_desk_with_a_result_keeps_numbers_whole(snap_compare, size):
+    """A check with a trigger on the desk at the smallest usual terminal and a large one:
+    whole numbers with their units in the values table, the picture on its own axis."""
+
+    async def type_form(pilot) -> None:
+        await pilot.press("f3")
+        await pilot.pause()
+        screen = pilot.app.screen
+        for key, text in (("old", "74HC221"), ("vcc", "5"), ("r", "10k"), ("c", "10n"), ("trigger_period", "100us")):
+            screen.query_one(f"#f-{key}").value = text
+        await pilot.pause(0.5)
+
+    assert snap_compare(Workbench(tiny_catalog()), run_before=type_form, terminal_size=size)
 
 
 class PictureApp(App):

@@ -17,10 +17,37 @@ import threading
 from textual.app import App
 from textual.binding import Binding
 
+from textual.screen import ModalScreen
+from textual.widgets import Static
+
 from advisor.tui.bomview import BomScreen
 from advisor.tui.help import HelpScreen
 from advisor.tui.lookup import LookupScreen
 from advisor.tui.workspace import WorkspaceScreen
+
+#: The smallest terminal the desks are laid out for (columns, rows). Below it a plain
+#: message asks for a larger window instead of a screen too cramped to read.
+MIN_SIZE = (72, 20)
+
+
+class TooSmallScreen(ModalScreen):
+    """Covers the desks while the terminal is below :data:`MIN_SIZE`."""
+
+    def compose(self):
+        yield Static("", id="too-small")
+
+    def on_mount(self) -> None:
+        self.show_size()
+
+    def on_resize(self, event) -> None:
+        self.show_size()
+        self.app.call_after_refresh(self.app.check_size)
+
+    def show_size(self) -> None:
+        w, h = self.app.size
+        self.query_one("#too-small", Static).update(
+            f"This window is {w}×{h}. The workbench needs at least {MIN_SIZE[0]}×{MIN_SIZE[1]}: "
+            "please make the window larger (or the font smaller).")
 
 
 class Workbench(App):
@@ -72,6 +99,18 @@ class Workbench(App):
             threading.Thread(target=self._read_catalog, name="retime-catalog", daemon=True).start()
         if self.start_bom:
             self.switch_mode("bom")
+        self.call_after_refresh(self.check_size)
+
+    def on_resize(self, event) -> None:
+        self.check_size()
+
+    def check_size(self) -> None:
+        small = self.size.width < MIN_SIZE[0] or self.size.height < MIN_SIZE[1]
+        showing = isinstance(self.screen, TooSmallScreen)
+        if small and not showing:
+            self.push_screen(TooSmallScreen())
+        elif showing and not small:
+            self.pop_screen()
 
     def _read_catalog(self) -> None:
         try:
@@ -94,7 +133,12 @@ class Workbench(App):
         if not isinstance(self.screen, HelpScreen):
             self.push_screen(HelpScreen())
 
-    def open_in_workspace(self, **fields: str) -> None:
-        """Take part numbers (``old``/``new``) to the check/swap desk and show it."""
+    def open_in_workspace(self, *, replace: bool = False, **fields: str) -> None:
+        """Take fields (``old``, ``new``, ``vcc`` ...) to the check/swap desk and show it.
+        With ``replace`` every other field of the form is cleared (a BOM row brings all
+        of its own values and nothing from earlier work may stay)."""
+        if replace:
+            self.pending_fields.clear()
+            self.pending_fields["__replace__"] = "yes"
         self.pending_fields.update(fields)
         self.switch_mode("workspace")

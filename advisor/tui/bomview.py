@@ -28,6 +28,25 @@ _STATUS_STYLE = {
 }
 
 
+def row_fields(result, rev, catalog, new_vcc: str = "") -> dict[str, str]:
+    """The check/swap form's fields for one reviewed BOM row: its family and best
+    alternate, and its own R, RB, C and supply cells as written in the file (the
+    supply the review assumed when the row has none), with the desk's new supply."""
+    t, cols = result.table, result.columns
+    row = t.rows[rev.index]
+
+    def cell(idx) -> str:
+        return row[idx].strip() if idx is not None and idx < len(row) else ""
+
+    fields = {"old": rev.family, "new": rev.best_alternate or "", "r": cell(cols.r), "rb": cell(cols.rb),
+              "c": cell(cols.c), "vcc": cell(cols.vcc), "new_vcc": new_vcc}
+    if not fields["vcc"] and rev.family:
+        from advisor.bom.review import _default_vcc
+
+        fields["vcc"] = f"{_default_vcc(catalog.get(rev.family)):g}"
+    return fields
+
+
 class BomScreen(Screen):
     """Load a CSV/XLSX BOM and review it row by row."""
 
@@ -156,11 +175,8 @@ class BomScreen(Screen):
         if rev is None or not rev.family:
             self._say("this row has no recognised timer or one-shot to open")
             return
-        fields = {"old": rev.family, "new": rev.best_alternate or ""}
-        new_vcc = self.query_one("#bom-new-vcc", Input).value.strip()
-        if new_vcc:
-            fields["new_vcc"] = new_vcc
-        self.app.open_in_workspace(**fields)
+        self.app.open_in_workspace(replace=True, **row_fields(self.result, rev, self.app.catalog,
+                                                               self.query_one("#bom-new-vcc", Input).value.strip()))
 
     def action_save(self) -> None:
         if self.result is None:

@@ -26,24 +26,56 @@ class FieldSpec:
 
     key: str
     label: str
-    kind: str  # a kind of advisor.values.KINDS, or "part"
+    kind: str  # a kind of advisor.values.KINDS, or "part", "choice", "series", "file", "channel"
     placeholder: str
     tip: str
+    choices: tuple[str, ...] = ()  # for kind "choice": the words it takes (a unique prefix will do)
 
 
 FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("old", "Part", "part", "e.g. 74HC221, NE555P", "the part on the board (any part number)"),
     FieldSpec("new", "Replace with", "part", "blank = check only", "the part to fit instead; blank checks the first part"),
+    FieldSpec("mode", "Mode", "choice", "mono / astable", "555-class mode (blank: one-shot, astable when RB is given)",
+              ("mono", "astable")),
     FieldSpec("vcc", "Supply", "voltage", "e.g. 5", "supply voltage of the circuit (V)"),
     FieldSpec("new_vcc", "New supply", "voltage", "blank = same", "supply after the change (V), for a swap"),
     FieldSpec("r", "R (Rext/RA)", "resistance", "e.g. 10k, 4k7", "main timing resistor"),
     FieldSpec("rb", "RB (astable)", "resistance", "555 astable only", "second resistor of a 555 astable"),
     FieldSpec("c", "C (Cext)", "capacitance", "e.g. 10n, 2n2", "timing capacitor"),
-    FieldSpec("pot", "Pot", "resistance", "e.g. 10k", "variable resistor in series with R (RB in an astable)"),
-    FieldSpec("pot_setting", "Pot setting", "fraction", "0..1 or 50%", "share of the pot's travel in circuit"),
+    FieldSpec("pot", "Trimmer", "resistance", "e.g. 10k", "variable resistor in series with R (RB in an astable)"),
+    FieldSpec("pot_setting", "Trimmer set", "fraction", "0..1 or 50%", "share of the trimmer's travel in circuit"),
+    FieldSpec("cont", "CONT driven", "voltage", "blank = open", "a 555's control pin driven to this voltage (V)"),
     FieldSpec("trigger_period", "Trigger period", "time", "e.g. 64us", "time between trigger edges"),
+    FieldSpec("trigger_edge", "Trigger edge", "choice", "rising / falling",
+              "the trigger signal's active edge (blank: the part's first trigger input)", ("rising", "falling")),
+    FieldSpec("trigger_high", "Trigger high", "voltage", "e.g. 3.3", "high level of the driving signal (V)"),
+    FieldSpec("measured", "Measured", "time", "e.g. 68us", "a time measured on the real circuit: calibrates the timing"),
+    FieldSpec("measured_quantity", "Measured is", "choice", "width / high / low / period",
+              "what the measured time is (blank: width, period for an astable)", ("width", "high", "low", "period")),
+    FieldSpec("target", "Target", "target", "e.g. 100us or 1kHz", "the time (or frequency) wanted"),
+    FieldSpec("target_quantity", "Target is", "choice", "width / period / freq",
+              "what the target is (blank: width, period for an astable; a frequency when given in Hz)",
+              ("width", "period", "freq")),
+    FieldSpec("r_tol", "R tolerance", "fraction", "blank = 5%", "resistor tolerance, e.g. 1% or 0.01"),
+    FieldSpec("c_tol", "C tolerance", "fraction", "blank = 10%", "capacitor tolerance"),
+    FieldSpec("series", "Series", "series", "blank = E24", "E-series for new resistor values (E3 … E192)"),
+    FieldSpec("maker", "Maker", "text", "blank = from the number",
+              "use this maker's published constant (e.g. NXP, TI); blank: the maker the part number names"),
+    FieldSpec("keep_within", "Keep within", "fraction", "blank = old band",
+              "keep C and change one resistor when that lands within this fraction of the kept time (swap)"),
+    FieldSpec("old_package", "Old package", "text", "blank = its first", "the fitted part's package, e.g. DIP-14"),
+    FieldSpec("new_package", "New package", "text", "blank = closest", "the replacement's package"),
 )
 FIELD_BY_KEY = {f.key: f for f in FIELDS}
+
+#: The form's sections: heading and the keys under it.
+SECTIONS: tuple[tuple[str, tuple[str, ...]], ...] = (
+    ("Parts and network", ("old", "new", "mode", "vcc", "new_vcc", "r", "rb", "c", "pot", "pot_setting", "cont")),
+    ("Trigger", ("trigger_period", "trigger_edge", "trigger_high")),
+    ("Measurement and target", ("measured", "measured_quantity", "target", "target_quantity")),
+    ("Tolerances and values", ("r_tol", "c_tol", "series", "keep_within", "maker")),
+    ("Packages", ("old_package", "new_package")),
+)
 
 #: The optional scope capture: read like ``--measured-from`` (advisor.measure.summary);
 #: kept apart from FIELDS because it is a file, not a quantity.
@@ -55,12 +87,22 @@ CAPTURE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("output_channel", "Output ch.", "channel", "2",
               "capture channel on the output (blank: 2, or 1 for a one-channel capture)"),
 )
-ALL_FIELDS: tuple[FieldSpec, ...] = FIELDS + CAPTURE_FIELDS
+#: Where the report key (Ctrl+W) writes: HTML, or Markdown for a name ending in .md.
+REPORT_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("report", "Report file", "file", "blank = retime-report.html",
+              "where Ctrl+W writes the report of what is on screen (.html or .md)"),
+)
+ALL_FIELDS: tuple[FieldSpec, ...] = FIELDS + CAPTURE_FIELDS + REPORT_FIELDS
 
 
 #: Command-line flags the engine's messages name, and the form field a workbench user edits.
 _FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "rb": "RB", "c": "C",
-               "pot": "Pot", "pot-setting": "Pot setting", "trigger-period": "Trigger period"}
+               "pot": "Trimmer", "pot-setting": "Trimmer set", "trigger-period": "Trigger period",
+               "trigger-edge": "Trigger edge", "trigger-high": "Trigger high", "mode": "Mode",
+               "measured-width": "Measured", "measured-high": "Measured", "measured-low": "Measured",
+               "measured-period": "Measured", "measured-from": "Capture file", "target-width": "Target",
+               "target-period": "Target", "target-freq": "Target", "r-tol": "R tolerance", "c-tol": "C tolerance",
+               "series": "Series", "maker": "Maker"}
 _FLAG = re.compile(r"--([a-z][a-z-]*)")
 
 
@@ -94,8 +136,34 @@ def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]
         if not text:
             values[spec.key] = None
             continue
-        if spec.kind == "part":
+        if spec.kind in ("part", "text"):
             values[spec.key] = text
+            continue
+        if spec.kind == "choice":
+            hits = [c for c in spec.choices if c.startswith(text.lower())]
+            if len(hits) == 1:
+                values[spec.key] = hits[0]
+            else:
+                values[spec.key] = None
+                errors[spec.key] = f"cannot read {text!r}; expected one of: {', '.join(spec.choices)}"
+            continue
+        if spec.kind == "series":
+            from advisor.eseries import series_name
+
+            try:
+                values[spec.key] = series_name(text, "Series")
+            except RetimeError as exc:
+                values[spec.key] = None
+                errors[spec.key] = exc.render()
+            continue
+        if spec.kind == "target":  # a time, or a frequency when it is given in Hz
+            kind = "frequency" if text.lower().rstrip().endswith("hz") else "time"
+            try:
+                values[spec.key] = parse_quantity(text, kind)
+                values["target_is_freq"] = kind == "frequency"
+            except ValueParseError as exc:
+                values[spec.key] = None
+                errors[spec.key] = f"cannot read {text!r}; expected {exc.expected or 'a time such as 100us or a frequency such as 1kHz'}"
             continue
         try:
             zero_ok = True if spec.kind == "fraction" else None
@@ -108,8 +176,13 @@ def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]
             values[spec.key] = None
     sett = values.get("pot_setting")
     if sett is not None and not 0.0 <= float(sett) <= 1.0:  # type: ignore[arg-type]
-        errors["pot_setting"] = f"pot setting {raw.get('pot_setting', '').strip()!r} is outside 0..1; expected a fraction such as 0.5 or 50%"
+        errors["pot_setting"] = f"trimmer setting {raw.get('pot_setting', '').strip()!r} is outside 0..1; expected a fraction such as 0.5 or 50%"
         values["pot_setting"] = None
+    for key in ("r_tol", "c_tol"):
+        tol = values.get(key)
+        if tol is not None and not 0.0 <= float(tol) < 1.0:  # type: ignore[arg-type]
+            errors[key] = f"tolerance {raw.get(key, '').strip()!r} is outside 0..100 %; expected e.g. 1% or 0.05"
+            values[key] = None
     return values, errors
 
 
@@ -189,7 +262,8 @@ _CAPTURES: dict[tuple, object] = {}
 _CAPTURES_KEPT = 4
 
 
-def read_measurement(path: str, mode: str | None, trigger_channel: int | None, output_channel: int | None):
+def read_measurement(path: str, mode: str | None, trigger_channel: int | None, output_channel: int | None,
+                     quantity: str | None = None):
     """The capture's Measurement, exactly as ``--measured-from`` makes it (raises CaptureError)."""
     import os
 
@@ -197,12 +271,12 @@ def read_measurement(path: str, mode: str | None, trigger_channel: int | None, o
 
     try:
         st = os.stat(path)
-        key = (os.path.abspath(path), st.st_size, st.st_mtime_ns, mode, trigger_channel, output_channel)
+        key = (os.path.abspath(path), st.st_size, st.st_mtime_ns, mode, trigger_channel, output_channel, quantity)
     except OSError:
         key = None  # let the reader say what is wrong with the path
     if key is not None and key in _CAPTURES:
         return _CAPTURES[key]
-    m = capture_measurement(path, mode=mode, trigger_channel=trigger_channel, output_channel=output_channel)
+    m = capture_measurement(path, quantity, mode=mode, trigger_channel=trigger_channel, output_channel=output_channel)
     if key is not None:
         _CAPTURES[key] = m
         while len(_CAPTURES) > _CAPTURES_KEPT:
@@ -210,10 +284,38 @@ def read_measurement(path: str, mode: str | None, trigger_channel: int | None, o
     return m
 
 
-def build_circuit(part: str, v: dict[str, object], measured=None) -> Circuit:
-    """The form's values as one validated circuit (mode astable when RB is given)."""
-    mode = "astable" if v.get("rb") is not None else None
+def form_mode(v: dict[str, object]) -> str | None:
+    """The mode the form asks for: as chosen, else astable when RB is given."""
+    return v.get("mode") or ("astable" if v.get("rb") is not None else None)  # type: ignore[return-value]
+
+
+def build_circuit(part: str, v: dict[str, object], measured=None, catalog=None) -> Circuit:
+    """The form's values as one validated circuit, exactly as the command line builds it
+    from the same flags (advisor.cli.options.circuit_from_args)."""
+    from advisor.circuit import Measurement, Target
+
+    mode = form_mode(v)
+    if measured is None and v.get("measured") is not None:
+        q = v.get("measured_quantity") or ("period" if mode == "astable" else "width")
+        measured = Measurement(q, v["measured"])  # type: ignore[arg-type]
+    target = None
+    if v.get("target") is not None:
+        if v.get("target_is_freq"):
+            kind = "freq"
+        else:
+            kind = v.get("target_quantity") or ("period" if mode == "astable" else "width")
+            if kind == "freq":
+                kind = "period"  # a time typed for a frequency target: the period it means
+        target = Target(kind, v["target"])  # type: ignore[arg-type]
+    series = v.get("series")
+    makers: dict = {}
+    if catalog is not None and (v.get("old") or v.get("maker")):
+        from advisor.makers import makers_of
+
+        found, basis = makers_of(catalog, str(v.get("old") or ""), v.get("maker"))  # type: ignore[arg-type]
+        makers = {"makers": found, "maker_basis": basis}
     return Circuit(
+        **makers,
         part=part,
         vcc=v.get("vcc"),  # type: ignore[arg-type]
         mode=mode,  # type: ignore[arg-type]
@@ -222,8 +324,13 @@ def build_circuit(part: str, v: dict[str, object], measured=None) -> Circuit:
         c=v.get("c"),  # type: ignore[arg-type]
         pot=v.get("pot"),  # type: ignore[arg-type]
         pot_setting=v.get("pot_setting"),  # type: ignore[arg-type]
-        trigger=Trigger(period=v.get("trigger_period")),  # type: ignore[arg-type]
+        r_tol=v.get("r_tol"),  # type: ignore[arg-type]
+        c_tol=v.get("c_tol"),  # type: ignore[arg-type]
+        trigger=Trigger(v.get("trigger_period"), v.get("trigger_edge"), v.get("trigger_high")),  # type: ignore[arg-type]
         measured=measured,
+        target=target,
+        r_series=series,  # type: ignore[arg-type]
+        cont=v.get("cont"),  # type: ignore[arg-type]
     )
 
 
@@ -270,23 +377,29 @@ def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Out
     if values.get("pot_setting") is not None and values.get("pot") is None:
         return Outcome("error", part=old_fam.id, field_errors={"pot_setting": "a pot setting needs the pot's value; fill in Pot"})
     measured = None
+    if values.get("capture") and values.get("measured") is not None:
+        return Outcome("error", part=old_fam.id, field_errors={
+            "measured": "give a measured time or a capture file, not both"}, problem="fix the marked field to recompute")
     if values.get("capture"):
         try:
-            measured = read_measurement(str(values["capture"]), "astable" if values.get("rb") is not None else None,
-                                        values.get("trigger_channel"), values.get("output_channel"))  # type: ignore[arg-type]
+            measured = read_measurement(str(values["capture"]), form_mode(values),
+                                        values.get("trigger_channel"), values.get("output_channel"),  # type: ignore[arg-type]
+                                        values.get("measured_quantity"))  # type: ignore[arg-type]
         except RetimeError as exc:
             return Outcome("error", part=old_fam.id, field_errors={"capture": exc.render()},
                            problem="the capture cannot be used: see its field")
     if new_query and new_fam is not None:
         from advisor.substitute import swap
 
-        circuit = build_circuit(old_fam.id, values, measured)
-        result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"))
+        circuit = build_circuit(old_fam.id, values, measured, catalog)
+        result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"),
+                      series=str(values.get("series") or "E24"), old_package=values.get("old_package"),
+                      new_package=values.get("new_package"), keep_within=values.get("keep_within"))
         data = result.to_json()
         return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
     from advisor.checking import check_circuit
 
-    circuit = build_circuit(old_fam.id, values, measured)
+    circuit = build_circuit(old_fam.id, values, measured, catalog)
     data = check_circuit(old_fam, circuit, new_vcc=values.get("new_vcc")).to_json()
     return Outcome("check", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id)
 
@@ -299,27 +412,72 @@ class Hit:
     title: str
 
 
-def find_parts(catalog, query: str, limit: int = 12) -> tuple[list[Hit], str | None]:
+def natural_key(text: str) -> list:
+    """Sort key that orders numbers by value: 74HC123 before 74HC1G123 before 74HC4538."""
+    return [int(t) if t.isdigit() else t.lower() for t in re.split(r"(\d+)", text)]
+
+
+def prefix_hits(catalog, query: str) -> list[Hit]:
+    """Families whose id or a listed part number starts with ``query`` (case ignored),
+    in natural order: what a user typing a part number from its start expects."""
+    q = query.strip().upper()
+    out = []
+    for fid in catalog.ids():
+        fam = catalog.families[fid]
+        if fid.upper().startswith(q) or any(str(pn).upper().startswith(q) for pn in fam.part_numbers):
+            out.append(Hit(fam.id, 100.0, "prefix", fam.title))
+    return sorted(out, key=lambda h: natural_key(h.family))
+
+
+def find_parts(catalog, query: str, limit: int = 30) -> tuple[list[Hit], str | None]:
     """Ranked families for a typed query, and a one-line note when there are none.
 
-    Uses ``advisor.partnumber.recognise`` (maker prefixes, suffixes, typos). Until it
-    is installed only family ids that contain the typed text are offered.
+    Recognised part numbers (``advisor.partnumber.recognise``: maker prefixes,
+    suffixes) come first, then every family whose number starts with what is typed
+    (so "74H" lists the 74HC and 74HCT parts), in natural order, then near misses.
     """
     q = query.strip()
     if not q:
-        hits = [Hit(fid, 0.0, "list", catalog.families[fid].title) for fid in catalog.ids()]
-        return hits, None
+        hits = [Hit(catalog.families[fid].id, 0.0, "list", catalog.families[fid].title) for fid in catalog.ids()]
+        return sorted(hits, key=lambda h: natural_key(h.family)), None
+    recognised: list[Hit] = []
     try:
         from advisor.partnumber import recognise
 
-        hits = []
         for m in recognise(catalog, q, limit=limit):
             fam = catalog.families.get(str(m.family).upper())
-            hits.append(Hit(str(m.family), float(m.score), str(m.how), fam.title if fam else ""))
-    except RetimeError as exc:
-        return [], exc.render()
+            recognised.append(Hit(str(m.family), float(m.score), str(m.how), fam.title if fam else ""))
+    except RetimeError:
+        recognised = []
     except Exception as exc:  # recognition bug: say so in one line
         return [], f"internal error in part recognition: {type(exc).__name__}: {exc}"
+    strong = [h for h in recognised if h.how != "fuzzy"]
+    fuzzy = [h for h in recognised if h.how == "fuzzy"]
+    hits: list[Hit] = []
+    seen: set[str] = set()
+    for h in strong + prefix_hits(catalog, q) + fuzzy:
+        if h.family.upper() not in seen:
+            seen.add(h.family.upper())
+            hits.append(h)
     if not hits:
         return [], f"no family matches {q!r}"
     return hits[:limit], None
+
+
+def rank_alternates(catalog, raw: dict[str, str]) -> tuple[dict | None, str | None]:
+    """The ranked alternates of the form's part with the form's circuit (the JSON of
+    ``retime alternates``), or (None, one line) when the form does not read; never raises."""
+    values, errors = parse_fields(raw)
+    if errors or not values.get("old"):
+        return None, "the form does not read"
+    try:
+        fam = resolve(catalog, str(values["old"]))
+        from advisor.substitute.alternates import alternates
+
+        res = alternates(catalog, fam.id, build_circuit(fam.id, values, catalog=catalog), new_vcc=values.get("new_vcc"),  # type: ignore[arg-type]
+                         series=str(values.get("series") or "E24"))
+        return res.to_json(), None
+    except RetimeError as exc:
+        return None, exc.render()
+    except Exception as exc:  # an engine bug: one line, never a traceback
+        return None, f"internal error: {type(exc).__name__}: {exc} (please report it)"

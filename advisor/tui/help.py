@@ -17,15 +17,19 @@ KEYS: list[tuple[str, str, str]] = [
     ("", "F2 / F3 / F4", "look up · check/swap · BOM review"),
     ("", "Tab / Shift+Tab", "next / previous field or list"),
     ("", "Ctrl+Q", "quit"),
-    ("look up", "type", "ranked families update as you type"),
+    ("", "↑ ↓ PgUp PgDn", "scroll this card"),
+    ("look up", "type", "families whose number starts with what you type, recognised part numbers first"),
     ("", "↓ / ↑", "move through the families; the sheet follows"),
     ("", "Enter", "check the chosen family on the check/swap desk"),
     ("", "Ctrl+N", "take the chosen family as the replacement"),
     ("check/swap", "type", "every change recomputes the values, band, findings and picture"),
+    ("", "choices", "Mode, Trigger edge, Measured is, Target is: type the word or its start"),
+    ("", "Enter on an alternate", "swap to it"),
+    ("", "Ctrl+W", "write the report of what is on screen (Report file: .html or .md)"),
     ("", "Ctrl+L", "clear the form"),
     ("", "Ctrl+R", "exchange the part and its replacement"),
     ("BOM", "Enter", "read the file named in the path field"),
-    ("", "Enter on a row", "open that part and its best alternate on the check/swap desk"),
+    ("", "Enter on a row", "open that row's part, values and best alternate on the check/swap desk"),
     ("", "Ctrl+S", "write the reviewed rows next to the input (…-reviewed.csv)"),
 ]
 
@@ -63,7 +67,7 @@ def cautions_text() -> Text:
 
 
 class HelpScreen(ModalScreen):
-    """Keys and cautions; Escape, F1 or q closes it."""
+    """Keys and cautions; Escape, F1 or q closes it; the card scrolls when the window is short."""
 
     BINDINGS = [
         Binding("escape", "dismiss", "Close"),
@@ -77,4 +81,11 @@ class HelpScreen(ModalScreen):
             yield Static(help_text(), id="help-keys")
             yield Static(Text("Cautions", style=STYLE["danger"]), classes="help-title")
             yield Static(cautions_text(), id="help-cautions")
+            from advisor.tui.app import MIN_SIZE
+
+            yield Static(Text(f"The workbench needs a window of at least {MIN_SIZE[0]}×{MIN_SIZE[1]}.",
+                              style=STYLE["dim"]), classes="help-title")
         yield Footer()
+
+    def on_mount(self) -> None:
+        self.query_one("#help-card").focus()  # arrow keys and PgUp/PgDn scroll it

@@ -78,7 +78,7 @@ class LookupScreen(Screen):
             self.refresh_results(event.value)
 
     def refresh_results(self, text: str) -> None:
-        hits, problem = find_parts(self.app.catalog, text)
+        hits, problem = find_parts(self.app.catalog, text, limit=60)
         results = self.query_one("#results", OptionList)
         results.clear_options()
         results.add_options([Option(_hit_prompt(h), id=h.family) for h in hits])
@@ -89,7 +89,9 @@ class LookupScreen(Screen):
         elif text.strip():
             best = hits[0] if hits else None
             msg = f"{len(hits)} famil{'y' if len(hits) == 1 else 'ies'}"
-            if best is not None and best.how == "fuzzy":
+            if best is not None and best.how == "prefix":
+                msg += " starting with " + repr(text.strip())
+            elif best is not None and best.how == "fuzzy":
                 msg += f" · no exact match; nearest {best.family}"
             note.update(Text(msg + " · Enter checks it, Ctrl+N takes it as the replacement", style=STYLE["dim"]))
         else:
