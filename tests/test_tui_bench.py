@@ -40,9 +40,16 @@ def shown(app, selector: str, width: int | None = None) -> str:
 
 
 async def put(pilot, field: str, text: str) -> None:
-    box = pilot.app.screen.query_one(f"#f-{field}", Input)
+    """Set a field and wait until the desk has recomputed from it (debounced)."""
+    screen = pilot.app.screen
+    box = screen.query_one(f"#f-{field}", Input)
+    before = screen.outcome
     box.value = text
-    await pilot.pause(0.2)  # longer than the desk's debounce
+    await pilot.pause(0.2)
+    for _ in range(100):
+        if screen.outcome is not before and screen._timer is None:
+            break
+        await pilot.pause(0.05)
 
 
 async def desk(pilot) -> WorkspaceScreen:

@@ -77,7 +77,7 @@ def test_workspace_with_a_bad_value(snap_compare):
         await pilot.press("f3")
         await pilot.pause()
         await pilot.press(*"74HC221", "tab", "tab", "tab", "5", "tab", "tab", *"4x7")
-        await pilot.pause(0.3)
+        await pilot.pause(1.0)  # the debounced recompute, with room for a loaded machine
 
     assert snap_compare(Workbench(tiny_catalog()), run_before=type_form, terminal_size=SIZE)
 
@@ -93,7 +93,7 @@ def test_desk_with_a_result_keeps_numbers_whole(snap_compare, size):
         screen = pilot.app.screen
         for key, text in (("old", "74HC221"), ("vcc", "5"), ("r", "10k"), ("c", "10n"), ("trigger_period", "100us")):
             screen.query_one(f"#f-{key}").value = text
-        await pilot.pause(0.5)
+        await pilot.pause(1.5)
 
     assert snap_compare(Workbench(tiny_catalog()), run_before=type_form, terminal_size=size)
 

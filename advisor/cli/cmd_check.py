@@ -60,7 +60,10 @@ def run(args: argparse.Namespace) -> int:
         if not args.no_picture:
             from advisor.picture import family_edge, render_text as picture, terminal_columns, under_numbers
 
-            text = under_numbers(text, picture(j, terminal_columns(), indent=2, edge=family_edge(family)), "findings")
+            from advisor.cli.output import catalog_for
+
+            edge = family_edge(catalog_for(args).get(j["part"]))
+            text = under_numbers(text, picture(j, terminal_columns(), indent=2, edge=edge), "findings")
         sys.stdout.write(text)
     return fail_on_status(args, result)
 
