@@ -70,7 +70,7 @@ async def test_capture_field_calibrates_and_draws_the_measured_row(capture_path)
         assert out.data["capture"]["file"] == str(capture_path)
         # ngspice one-shot: width ln3·R·C within 0.5 % (issue 10's acceptance).
         assert out.data["timing"]["nominal"]["width"] == pytest.approx(math.log(3) * 10e3 * 10e-9, rel=0.005)
-        assert "bench.csv" in shown(app, "#timing")
+        assert "bench.csv" in shown(app, "#notes")
         picture = app.screen.query_one("#picture")
         lay = lay_out(picture.result)
         assert lay is not None and lay.measured_high is not None
