@@ -7,23 +7,20 @@ problem in every file (not only the first) as located messages:
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
 
-import yaml
 from pydantic import BaseModel
 
 from advisor.errors import UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
+from advisor.files import FileRefused
 from advisor.parts import RESERVED_SOURCES, Family, Lifecycle, Sourced
 from advisor.resources import data_dirs
+from advisor.yamlload import YamlProblem, load_yaml_file
 
 MAKERS_FILE = "makers.yaml"  # advisor.makers reads it; not a part family
-
-try:  # the C loader is ~10x faster; fall back when libyaml is absent
-    _Loader = yaml.CSafeLoader
-except AttributeError:  # pragma: no cover
-    _Loader = yaml.SafeLoader
 
 def _required_constants() -> dict[str, tuple[str, ...]]:
     from advisor.timing.registry import LAWS
@@ -294,11 +291,11 @@ def _load_makers(cat: "Catalog", path: Path, label: str) -> None:
 
     try:
         data = read_makers(path)
-    except yaml.YAMLError as exc:
-        cat.problems.append(Problem(label, "", f"not valid YAML: {getattr(exc, 'problem', exc)}"))
+    except YamlProblem as exc:
+        cat.problems.append(Problem(label, exc.where, exc.message))
         return
-    except (OSError, UnicodeDecodeError) as exc:
-        cat.problems.append(Problem(label, "", f"cannot read: {exc}"))
+    except FileRefused as exc:
+        cat.problems.append(Problem(label, "", f"not read: {exc.message}"))
         return
     except ValidationError as exc:
         for err in exc.errors():
@@ -358,14 +355,12 @@ def load_dirs(dirs: list[Path]) -> Catalog:
                 _load_makers(cat, path, label)
                 continue
             try:
-                data = yaml.load(path.read_text(encoding="utf-8"), Loader=_Loader)
-            except yaml.YAMLError as exc:
-                mark = getattr(exc, "problem_mark", None)
-                where = f"line {mark.line + 1}" if mark else ""
-                cat.problems.append(Problem(label, where, f"not valid YAML: {getattr(exc, 'problem', exc)}"))
+                data = load_yaml_file(path, "catalog")
+            except YamlProblem as exc:
+                cat.problems.append(Problem(label, exc.where, exc.message))
                 continue
-            except (OSError, UnicodeDecodeError) as exc:
-                cat.problems.append(Problem(label, "", f"cannot read: {exc}"))
+            except FileRefused as exc:
+                cat.problems.append(Problem(label, "", f"not read: {exc.message}"))
                 continue
             fam, problems = parse_family(data, label)
             cat.problems.extend(problems)
@@ -389,7 +384,123 @@ def load_catalog(extra: tuple[str, ...] = ()) -> Catalog:
     from advisor.cache import cached
 
     dirs = data_dirs("catalog", extra)
-    return cached("catalog", dirs, lambda: load_dirs(dirs))
+    return cached("catalog", dirs, lambda: load_dirs(dirs), _to_cache, lambda data: _from_cache(data, dirs))
+
+
+def _to_cache(cat: Catalog) -> dict:
+    """The catalog as plain data for :mod:`advisor.cache`; each family is its own JSON
+    text, so a cache hit parses and rebuilds only the families a command looks at."""
+    import json
+
+    from advisor.cache import to_data
+
+    data = to_data(cat)
+    data["families"] = {key: json.dumps(fam, ensure_ascii=False, allow_nan=False, separators=(",", ":"))
+                        for key, fam in data["families"].items()}
+    return data
+
+
+def _from_cache(data: dict, dirs: list[Path]) -> Catalog:
+    from advisor.cache import CacheMismatch, rebuild
+
+    from advisor.makers import MakerBook
+
+    fields = {f.name for f in dataclasses.fields(Catalog)}
+    if type(data) is not dict or set(data) != fields or fields != {"families", "files", "problems", "makers"}:
+        raise CacheMismatch("not a cached catalog of this shape")  # a new Catalog field: rebuilt (and a test says so)
+    cat = Catalog(files=rebuild(dict[str, str], data["files"]), problems=rebuild(list[Problem], data["problems"]),
+                  makers=rebuild(MakerBook, data["makers"]))
+    cat.families = _CachedFamilies(rebuild(dict[str, str], data["families"]), cat, lambda: load_dirs(dirs))
+    return cat
+
+
+class _CachedFamilies(dict):
+    """Family id -> Family, rebuilt from its cached JSON text on first access.
+
+    A cached text that does not rebuild (a damaged or planted cache file) makes the
+    whole catalog load again from the YAML files, in place, and drops the cache file,
+    so the command goes on with validated data.
+    """
+
+    def __init__(self, raw: dict[str, str], owner: Catalog, reload) -> None:
+        super().__init__(raw)
+        self._owner = owner
+        self._reload = reload
+
+    def _family(self, key: str, value):
+        if type(value) is not str:
+            return value
+        import json
+
+        from advisor.cache import rebuild
+
+        try:
+            fam = rebuild(Family, json.loads(value))
+        except (ValueError, TypeError, KeyError, NameError, AttributeError, RecursionError):
+            return self._recover(key)
+        dict.__setitem__(self, key, fam)
+        return fam
+
+    def _recover(self, key: str):
+        from advisor.cache import drop
+
+        drop("catalog")
+        fresh = self._reload()
+        dict.clear(self)
+        dict.update(self, fresh.families)
+        self._owner.files = fresh.files
+        self._owner.problems = fresh.problems
+        return dict.__getitem__(self, key)
+
+    def _all(self) -> None:
+        for key, value in list(dict.items(self)):
+            if type(value) is str:
+                self._family(key, value)
+
+    def __getitem__(self, key):
+        return self._family(key, dict.__getitem__(self, key))
+
+    def get(self, key, default=None):
+        if dict.__contains__(self, key):
+            return self[key]
+        return default
+
+    def __iter__(self):  # not dict's own iterator: dict(x) and {**x} go through __getitem__
+        return iter(list(dict.keys(self)))
+
+    def values(self):
+        self._all()
+        return dict.values(self)
+
+    def items(self):
+        self._all()
+        return dict.items(self)
+
+    def copy(self):
+        self._all()
+        return dict(dict.items(self))
+
+    def pop(self, key, *default):
+        self._all()
+        return dict.pop(self, key, *default)
+
+    def setdefault(self, key, default=None):
+        self._all()
+        return dict.setdefault(self, key, default)
+
+    def __eq__(self, other):
+        self._all()
+        return dict.__eq__(self, other)
+
+    __hash__ = None
+
+    def __repr__(self) -> str:
+        self._all()
+        return dict.__repr__(self)
+
+    def __reduce__(self):
+        self._all()
+        return (dict, (dict(dict.items(self)),))
 
 
 def require_clean(cat: Catalog) -> Catalog:

@@ -147,13 +147,10 @@ class MakerBook:
 
 
 def read_makers(path: Path) -> MakersFile:
-    import yaml
+    """Raises YamlProblem / FileRefused (advisor.yamlload: strict, bounded, regular files only)."""
+    from advisor.yamlload import load_yaml_file
 
-    try:
-        loader = yaml.CSafeLoader
-    except AttributeError:  # pragma: no cover
-        loader = yaml.SafeLoader
-    return MakersFile.model_validate(yaml.load(path.read_text(encoding="utf-8"), Loader=loader) or {})
+    return MakersFile.model_validate(load_yaml_file(path, "catalog") or {})
 
 
 def makers_of(catalog, part: str, forced: str | None = None) -> tuple[tuple[str, ...], str | None]:

@@ -111,6 +111,7 @@ class BomResult:
             })
         return {
             "file": str(self.table.path),
+            "sheet": self.table.sheet,
             "part_column": header[self.columns.part] if self.columns.part < len(header) else self.columns.part + 1,
             "new_vcc": self.new_vcc,
             "columns": keys + list(ADDED_COLUMNS),
@@ -178,7 +179,9 @@ def review_bom(
     data_idx = [i for i in range(table.header_row + 1, len(table.rows))]
     queries = {_cell(table.rows[i], cols.part) for i in data_idx} - {""}
     matches = recognise_many(catalog, sorted(queries))
-    read = [_guarded_read(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
+    # A line the table could not split into cells (an unclosed quote) keeps its place with its reason.
+    read = [_Read(RowReview(i, "unreadable", reason=table.row_problems[i])) if i in table.row_problems
+            else _guarded_read(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
     ref_col = _ref_column(table)
     if ref_col is not None:
         for r in read:

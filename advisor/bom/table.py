@@ -1,11 +1,23 @@
-"""Read a bill of materials into a plain table without losing a row.
+"""Read a bill of materials into a plain table without losing or merging a row.
 
-CSV is read with the standard library (rows of any length are kept as they are):
-the encoding is tried as UTF-8 (with or without a byte-order mark), then cp1252,
-then latin-1; line endings are normalised before sniffing; the delimiter is
-settled by counting candidates on the header line. XLSX is read with pandas
-(openpyxl) as text. Practical notes: pandas alone fails on cp1252 files and on
-semicolon files (measured here), hence the manual decoding.
+Delimited text (CSV, TSV, TXT):
+
+- encoding: a byte-order mark decides (UTF-8, UTF-16 LE/BE: a spreadsheet's "Unicode
+  text"); UTF-16 without a mark is recognised by its zero bytes; otherwise strict
+  UTF-8, then Windows-1252, then Latin-1 (which reads any byte). The encoding, the
+  mark, the delimiter and the line ending are kept so the written review matches.
+- delimiter: the one of ``, ; tab |`` used most (outside quotes) on the first lines.
+- quotes: each physical line is one row, except that a quoted cell may run over
+  line breaks (a note typed with Alt+Enter) when it closes within
+  :data:`MAX_CELL_LINES` lines and the lines it swallows do not look like rows of their
+  own. A quote that opens a cell and is never closed (``U2,"NE555,timer``) does not
+  swallow the rest of the file: that line comes back as written, split at each
+  delimiter, with a reason naming its line (``Table.row_problems``).
+
+Workbooks (XLSX) are read with openpyxl: every sheet is considered, the sheet asked
+for (``--sheet NAME``) or else the first one with a part-number header; merged cells
+read as their anchor's value; numbers are kept as numbers for the written workbook
+(``Table.numeric``); a formula is read as its text (it is never evaluated).
 """
 
 from __future__ import annotations
@@ -17,6 +29,10 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from advisor.errors import InputError
+
+#: Longest run of physical lines one quoted cell may span (common practice: a note of a
+#: few lines typed into a spreadsheet cell).
+MAX_CELL_LINES = 20
 
 #: Header spellings that name the part-number column, normalised (lower case, no punctuation).
 PART_HEADERS = (
@@ -36,9 +52,16 @@ def norm_header(text: str) -> str:
     return re.sub(r"[^a-z0-9]", "", str(text).lower())
 
 
+
 @dataclass
 class Table:
-    """Rows as text; ``header_row`` indexes the header inside ``rows`` (preamble kept)."""
+    """Rows as text; ``header_row`` indexes the header inside ``rows`` (preamble kept).
+
+    ``row_problems`` maps a row index to the reason it could not be read as cells
+    (an unclosed quote); ``line_numbers`` gives each row's first physical line (1-based)
+    in a text file; ``numeric`` holds the (row, column) cells a workbook stored as
+    numbers; ``sheet`` is the workbook sheet read and ``sheets`` all of them.
+    """
 
     path: Path
     rows: list[list[str]]
@@ -46,6 +69,13 @@ class Table:
     delimiter: str = ","
     encoding: str = "utf-8"
     notes: list[str] = field(default_factory=list)
+    mark: bytes = b""
+    line_ending: str = "\n"
+    row_problems: dict[int, str] = field(default_factory=dict)
+    line_numbers: list[int] = field(default_factory=list)
+    numeric: set[tuple[int, int]] = field(default_factory=set)
+    sheet: str | None = None
+    sheets: tuple[str, ...] = ()
 
     @property
     def header(self) -> list[str]:
@@ -55,24 +85,133 @@ class Table:
     def width(self) -> int:
         return max((len(r) for r in self.rows), default=0)
 
+    def line_of(self, index: int) -> int:
+        """The 1-based line (text) or row (workbook) where row ``index`` starts."""
+        return self.line_numbers[index] if index < len(self.line_numbers) else index + 1
 
-def _decode(raw: bytes) -> tuple[str, str]:
-    for enc in ("utf-8-sig", "cp1252", "latin-1"):
+
+_MARKS = ((b"\xef\xbb\xbf", "utf-8-sig", b""), (b"\xff\xfe", "utf-16-le", b"\xff\xfe"),
+          (b"\xfe\xff", "utf-16-be", b"\xfe\xff"))
+
+
+def _decode(raw: bytes) -> tuple[str, str, bytes]:
+    """(text, encoding, mark to write back) for the file's bytes."""
+    for mark, enc, keep in _MARKS:
+        if raw.startswith(mark):
+            try:
+                return raw[len(mark):].decode(enc.replace("-sig", "")), enc, keep
+            except UnicodeDecodeError as exc:
+                raise InputError(f"the file starts with a {enc.upper()} byte-order mark but byte "
+                                 f"{exc.start + len(mark)} is not valid in that encoding") from None
+    sample = raw[:4000]
+    if len(sample) >= 4:  # UTF-16 without a mark: a zero byte beside every ASCII character
+        even, odd = sample[0::2].count(0), sample[1::2].count(0)
+        half = len(sample) // 2
+        for enc, zeros, other in (("utf-16-le", odd, even), ("utf-16-be", even, odd)):
+            if zeros > 0.4 * half and other < 0.05 * half:
+                try:
+                    return raw.decode(enc), enc, b""
+                except UnicodeDecodeError:
+                    break
+    for enc in ("utf-8", "cp1252", "latin-1"):
         try:
-            return raw.decode(enc), enc
+            return raw.decode(enc), enc, b""
         except UnicodeDecodeError:
             continue
     raise AssertionError("latin-1 decodes every byte")  # pragma: no cover
 
 
+def _outside_quotes(line: str) -> str:
+    return re.sub(r'"[^"]*"', "", line)
+
+
 def _delimiter(lines: list[str]) -> str:
-    """The delimiter used most on the first lines that hold any (header line first)."""
+    """The delimiter used most (outside quotes) on the first lines that hold any."""
     for line in lines[:30]:
-        counts = {d: line.count(d) for d in (",", ";", "\t", "|")}
+        bare = _outside_quotes(line)
+        counts = {d: bare.count(d) for d in (",", ";", "\t", "|")}
         best = max(counts, key=lambda d: counts[d])
         if counts[best] > 0:
             return best
     return ","
+
+
+def _ends_in_quotes(text: str, delim: str) -> bool:
+    """True when ``text`` ends inside a quoted cell (csv rules: a quote opens a cell only
+    at its start; inside, ``""`` is a quote and a lone ``"`` closes the cell)."""
+    inside = False
+    at_start = True
+    i, n = 0, len(text)
+    while i < n:
+        ch = text[i]
+        if inside:
+            if ch == '"':
+                if i + 1 < n and text[i + 1] == '"':
+                    i += 2
+                    continue
+                inside = False
+            i += 1
+            continue
+        if ch == '"' and at_start:
+            inside = True
+        at_start = ch in (delim, "\n")
+        i += 1
+    return inside
+
+
+def _split_lines(text: str, delim: str) -> tuple[list[list[str]], list[int], dict[int, str]]:
+    """Rows, the 1-based line each starts on, and the rows that could not be read."""
+    lines = text.split("\n")
+    while lines and not lines[-1].strip():
+        lines.pop()  # trailing blank lines are not rows
+    bare_counts = [ln.count(delim) for ln in lines[:2000] if '"' not in ln and ln.strip()]
+    typical = max(set(bare_counts), key=bare_counts.count) + 1 if bare_counts else 0
+    rows: list[list[str]] = []
+    starts: list[int] = []
+    problems: dict[int, str] = {}
+    i = 0
+    while i < len(lines):
+        line = lines[i]
+        if '"' not in line:
+            rows.append(line.split(delim))
+            starts.append(i + 1)
+            i += 1
+            continue
+        if not _ends_in_quotes(line, delim):
+            rows.append(_csv_row(line, delim))
+            starts.append(i + 1)
+            i += 1
+            continue
+        joined, end = line, None
+        for j in range(i + 1, min(len(lines), i + MAX_CELL_LINES)):
+            inner = lines[j]
+            if typical > 2 and inner.count(delim) >= typical - 1:
+                break  # this line looks like a row of its own: the quote was a stray one
+            joined += "\n" + inner
+            if not _ends_in_quotes(joined, delim):
+                end = j
+                break
+        cells = _csv_row(joined, delim) if end is not None else None
+        if cells is not None and (typical == 0 or len(cells) <= typical):
+            rows.append(cells)
+            starts.append(i + 1)
+            i = end + 1
+            continue
+        problems[len(rows)] = (f"line {i + 1}: a quote opens a cell that is never closed; "
+                               f"the line is kept as written, split at each {_delim_name(delim)}")
+        rows.append(line.split(delim))
+        starts.append(i + 1)
+        i += 1
+    return rows, starts, problems
+
+
+def _csv_row(text: str, delim: str) -> list[str]:
+    got = list(csv.reader(io.StringIO(text, newline=""), delimiter=delim))
+    return [cell for row in got for cell in row] if len(got) != 1 else got[0]
+
+
+def _delim_name(delim: str) -> str:
+    return {",": "comma", ";": "semicolon", "\t": "tab", "|": "bar"}.get(delim, repr(delim))
 
 
 def _find_header(rows: list[list[str]]) -> int:
@@ -92,49 +231,116 @@ def _find_header(rows: list[list[str]]) -> int:
     return 0
 
 
-def read_table(path: str | Path) -> Table:
-    """Read CSV/TSV/TXT or XLSX by extension; raise InputError with the reason if unreadable."""
+
+
+def read_table(path: str | Path, sheet: str | None = None) -> Table:
+    """Read CSV/TSV/TXT or XLSX by extension (or content); raise InputError with the
+    reason if unreadable. ``sheet`` names the workbook sheet to read."""
+    from advisor.files import FileRefused, read_regular
+
     p = Path(path)
     if not p.exists():
         raise InputError(f"BOM file {str(p)!r} not found", got=str(p))
     if p.is_dir():
         raise InputError(f"{str(p)!r} is a folder, not a BOM file", got=str(p))
     ext = p.suffix.lower()
-    if ext in (".xlsx", ".xlsm"):
-        return _read_xlsx(p)
     if ext == ".xls":
         raise InputError(f"{p.name}: old .xls workbooks are not read; save it as .xlsx or .csv")
     try:
-        raw = p.read_bytes()
-    except OSError as exc:
-        raise InputError(f"cannot read {str(p)!r}: {exc.strerror}") from None
-    if raw[:4] == b"PK\x03\x04":
-        return _read_xlsx(p)
-    text, enc = _decode(raw)
+        raw = read_regular(p, "bom")
+    except FileRefused as exc:
+        raise InputError(f"BOM file {exc.message}") from None
+    if ext in (".xlsx", ".xlsm") or raw[:4] == b"PK\x03\x04":
+        return _read_xlsx(p, raw, sheet)
+    if sheet is not None:
+        raise InputError(f"--sheet {sheet!r}: {p.name} is a text file, not a workbook")
+    try:
+        text, enc, mark = _decode(raw)
+    except InputError as exc:
+        raise InputError(f"{p.name}: {exc.message}") from None
+    head = text[:100_000]
+    ending = "\r\n" if "\r\n" in head else ("\r" if "\r" in head else "\n")
     text = text.replace("\r\n", "\n").replace("\r", "\n")
-    lines = text.split("\n")
-    delim = "\t" if ext == ".tsv" else _delimiter([ln for ln in lines if ln.strip()])
-    rows = list(csv.reader(io.StringIO(text), delimiter=delim))
+    delim = "\t" if ext == ".tsv" else _delimiter([ln for ln in text[:200_000].split("\n") if ln.strip()])
+    rows, starts, problems = _split_lines(text, delim)
     while rows and not any(c.strip() for c in rows[-1]):
-        rows.pop()  # trailing blank lines are not rows
+        rows.pop()  # trailing rows of empty cells (",,,") are not rows either
     if not rows:
         raise InputError(f"{p.name}: the file is empty")
-    return Table(p, rows, _find_header(rows), delim, enc)
+    return Table(p, rows, _find_header(rows), delim, enc, mark=mark, line_ending=ending,
+                 row_problems=problems, line_numbers=starts)
 
 
-def _read_xlsx(p: Path) -> Table:
-    import pandas as pd  # heavy: only for workbooks
+def _cell_text(value: object) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "TRUE" if value else "FALSE"
+    if isinstance(value, float):
+        return str(int(value)) if value.is_integer() and abs(value) < 1e15 else repr(value)
+    if hasattr(value, "isoformat"):
+        return value.isoformat()
+    return str(value)
 
+
+def _read_xlsx(p: Path, raw: bytes, want: str | None) -> Table:
     try:
-        frame = pd.read_excel(p, header=None, dtype=str, sheet_name=0, keep_default_na=False)
+        from openpyxl import load_workbook
+
+        wb = load_workbook(io.BytesIO(raw), read_only=False, data_only=False)
     except Exception as exc:  # openpyxl raises many kinds for damaged files
-        raise InputError(f"{p.name}: cannot read the workbook ({type(exc).__name__}: {exc})") from None
-    rows = [["" if v is None else str(v) for v in row] for row in frame.itertuples(index=False, name=None)]
+        raise InputError(f"{p.name}: cannot read the workbook ({type(exc).__name__}: {str(exc)[:120]})") from None
+    names = tuple(ws.title for ws in wb.worksheets)
+    if want is not None:
+        pick = [ws for ws in wb.worksheets if ws.title == want] or [
+            ws for ws in wb.worksheets if ws.title.strip().lower() == want.strip().lower()]
+        if not pick:
+            raise InputError(f"--sheet {want!r}: {p.name} has no such sheet",
+                             expected="one of " + ", ".join(repr(n) for n in names))
+        candidates = pick[:1]
+    else:
+        candidates = list(wb.worksheets)
+    read = [(ws, *_sheet_rows(ws)) for ws in candidates]
+    chosen = next(((ws, rows, num) for ws, rows, num in read if rows and _names_part_column(rows)), None)
+    if chosen is None:
+        chosen = next(((ws, rows, num) for ws, rows, num in read if rows), None)
+    if chosen is None:
+        which = f"sheet {want!r}" if want is not None else "every sheet"
+        raise InputError(f"{p.name}: {which} is empty")
+    ws, rows, numeric = chosen
+    table = Table(p, rows, _find_header(rows), "xlsx", "xlsx", numeric=numeric, sheet=ws.title, sheets=names,
+                  line_numbers=list(range(1, len(rows) + 1)))
+    if len(names) > 1:
+        table.notes.append(f"read sheet {ws.title!r} of {len(names)} ({', '.join(repr(n) for n in names)})")
+    return table
+
+
+def _sheet_rows(ws) -> tuple[list[list[str]], set[tuple[int, int]]]:
+    """A sheet's cells as text, merged ranges filled with their anchor's value."""
+    values = [list(r) for r in ws.iter_rows(values_only=True)]
+    for rng in ws.merged_cells.ranges:
+        if rng.min_row - 1 >= len(values):
+            continue
+        top = values[rng.min_row - 1]
+        anchor = top[rng.min_col - 1] if rng.min_col - 1 < len(top) else None
+        for r in range(rng.min_row - 1, min(rng.max_row, len(values))):
+            row = values[r]
+            for c in range(rng.min_col - 1, min(rng.max_col, len(row))):
+                row[c] = anchor
+    numeric = {(r, c) for r, row in enumerate(values) for c, v in enumerate(row)
+               if isinstance(v, (int, float)) and not isinstance(v, bool)}
+    rows = [[_cell_text(v) for v in row] for row in values]
+    for row in rows:  # cells past the last filled one are not cells
+        while row and row[-1] == "":
+            row.pop()
     while rows and not any(c.strip() for c in rows[-1]):
         rows.pop()
-    if not rows:
-        raise InputError(f"{p.name}: the first sheet is empty")
-    return Table(p, rows, _find_header(rows), "xlsx", "xlsx")
+    return rows, numeric
+
+
+def _names_part_column(rows: list[list[str]]) -> bool:
+    names = set(PART_HEADERS)
+    return any({norm_header(c) for c in row} & names for row in rows[:30])
 
 
 @dataclass(frozen=True)

@@ -18,6 +18,7 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("file", metavar="FILE", help="BOM as .csv/.tsv/.txt or .xlsx")
     p.add_argument("-o", "--output", metavar="OUT", help="write the reviewed BOM (.csv, .xlsx, .json or .md)")
     p.add_argument("--part-column", metavar="NAME", help="header (or 1-based number) of the part-number column")
+    p.add_argument("--sheet", metavar="NAME", help="workbook sheet to read (default: the first with a part-number column)")
     p.add_argument("--new-vcc", metavar="V", help="the supply the board moves to (V)")
     p.add_argument("--vcc", metavar="V", help="supply for lines without a supply column (default 5 V where the part runs there)")
     p.add_argument("--limit", type=int, default=3, help="alternates kept per line (default 3)")
@@ -42,9 +43,10 @@ def compute(args: argparse.Namespace):
 
     new_vcc = quantity_from_args(args, "--new-vcc", "voltage")
     vcc = quantity_from_args(args, "--vcc", "voltage")
+    _check_paths(args)
     catalog = catalog_for(args)
     stock = stock_from_args(args, catalog)
-    table = read_table(args.file)
+    table = read_table(args.file, sheet=args.sheet)
     # Long files get a bar (on a terminal only); it counts the distinct timer lines judged.
     bar = Progress("judging distinct timer lines", min_total=1 if len(table.rows) > 500 else 10**9)
     try:
@@ -75,12 +77,38 @@ def run(args: argparse.Namespace) -> int:
     return fail_on_status(args, res)
 
 
+def _check_paths(args: argparse.Namespace) -> None:
+    """-o and --report may name neither the input nor each other (exit 2 before any work)."""
+    from pathlib import Path
+
+    from advisor.errors import InputError
+
+    def same(a: str, b: str) -> bool:
+        pa, pb = Path(a), Path(b)
+        try:
+            if pa.exists() and pb.exists():
+                return pa.samefile(pb)
+        except OSError:
+            pass
+        return pa.resolve() == pb.resolve()
+
+    out, report = args.output, getattr(args, "report", None)
+    if out and same(out, args.file):
+        raise InputError(f"-o {out!r} names the input BOM; choose another output name (the input is never overwritten)")
+    if report and same(report, args.file):
+        raise InputError(f"--report {report!r} names the input BOM; choose another report name")
+    if out and report and same(out, report):
+        raise InputError(f"-o and --report both name {out!r}; give each its own file")
+
+
 def _print_text(res, output: str | None) -> None:
     t = res.table
     head = t.header
     part_name = head[res.columns.part] if res.columns.part < len(head) else f"column {res.columns.part + 1}"
     out = sys.stdout
-    out.write(f"{t.path.name}: {len(res.reviews)} lines, part numbers from {part_name!r}")
+    sheet = f" (sheet {t.sheet!r} of {len(t.sheets)})" if t.sheet and len(t.sheets) > 1 else (
+        f" (sheet {t.sheet!r})" if t.sheet else "")
+    out.write(f"{t.path.name}{sheet}: {len(res.reviews)} lines, part numbers from {part_name!r}")
     if res.columns.duplicate_part_headers:
         out.write(f" (the header appears {1 + len(res.columns.duplicate_part_headers)} times; the first is used)")
     out.write("\n")
@@ -102,7 +130,7 @@ def _print_text(res, output: str | None) -> None:
                          + (" *" if a.get("in_stock") else "") for a in rev.alternates) or "—"
         ref = f"{rev.ref:<6} " if rev.ref else ""
         own = f" ({rev.part_status})" if rev.part_status else ""
-        out.write(f"  line {rev.index + 1:>5}  {ref}{part:<18} {rev.status:<12} {rev.family + own:<22} → {alts}\n")
+        out.write(f"  line {t.line_of(rev.index):>5}  {ref}{part:<18} {rev.status:<12} {rev.family + own:<22} → {alts}\n")
         if rev.new_values:
             from advisor.substitute.text import network
 

@@ -86,11 +86,13 @@ class Capture:
 
 def read_capture(path: str | Path) -> Capture:
     """Read a capture file (see the module docstring for the shapes accepted)."""
+    from advisor.files import FileRefused, read_regular
+
     p = Path(path)
     try:
-        raw = p.read_bytes()
-    except OSError as exc:
-        raise CaptureError(f"cannot read the capture: {exc.strerror or exc}", location=str(p)) from None
+        raw = read_regular(p, "capture")  # regular files only (a FIFO would hang), size-limited
+    except FileRefused as exc:
+        raise CaptureError(f"cannot read the capture: {exc.message}", location=str(p)) from None
     return parse_capture(_decode(raw), source=str(p))
 
 

@@ -9,7 +9,6 @@ a report behind.
 from __future__ import annotations
 
 import os
-import tempfile
 from pathlib import Path
 from typing import Any
 
@@ -17,12 +16,6 @@ from advisor.errors import InputError
 
 HTML_SUFFIXES = (".html", ".htm")
 MARKDOWN_SUFFIXES = (".md", ".markdown")
-
-
-def _umask() -> int:
-    mask = os.umask(0o022)
-    os.umask(mask)
-    return mask
 
 
 def report_format(path: str | os.PathLike) -> str:
@@ -62,25 +55,6 @@ def render_report(result_json: dict, path: str | os.PathLike, kind: str, catalog
     if not isinstance(result_json, dict) and hasattr(result_json, "to_json"):
         result_json = result_json.to_json()
     text = render_text(result_json, kind, fmt, catalog)
-    target = Path(path)
-    folder = target.parent if str(target.parent) else Path(".")
-    if not folder.is_dir():
-        raise InputError(f"--report {str(path)!r}: folder {str(folder)!r} does not exist")
-    try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
-    except OSError as exc:
-        raise InputError(f"--report {str(path)!r}: cannot write there ({exc.strerror})") from None
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
-            fh.write(text)
-        os.chmod(tmp, 0o666 & ~_umask())  # mkstemp makes 0600; a report is an ordinary file
-        os.replace(tmp, target)
-    except OSError as exc:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise InputError(f"--report {str(path)!r}: cannot write the report ({exc.strerror})") from None
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
-    return target
+    from advisor.files import atomic_write
+
+    return atomic_write(path, text.encode("utf-8"), what="--report")

@@ -15,20 +15,15 @@ from dataclasses import dataclass
 from functools import lru_cache
 from pathlib import Path
 
-import yaml
-
 from advisor.errors import key_path as _loc, raise_first_problem, short_repr as _short
+from advisor.files import FileRefused
 from advisor.resources import data_dirs
 from advisor.board.facts import board_vocabulary
 from advisor.rules.context import Var, vocabulary
 from advisor.rules.engine import CompiledRule, RuleSet
 from advisor.rules.safe_expr import ExprError, compile_expr
-from advisor.rules.template import compile_template
-
-try:  # the C loader is much faster; fall back when libyaml is absent
-    _Loader = yaml.CSafeLoader
-except AttributeError:  # pragma: no cover
-    _Loader = yaml.SafeLoader
+from advisor.rules.template import _any_name, compile_template
+from advisor.yamlload import YamlProblem, load_yaml_file
 
 _VOCAB: dict[str, dict[str, Var]] = {s: vocabulary(s) for s in ("part", "swap")}
 _VOCAB["board"] = board_vocabulary(_VOCAB["part"])
@@ -122,13 +117,11 @@ def load_file(path: Path, label: str) -> tuple[list[CompiledRule], list[RuleProb
     from advisor.rules.model import RuleFile
 
     try:
-        data = yaml.load(path.read_text(encoding="utf-8"), Loader=_Loader)
-    except yaml.YAMLError as exc:
-        mark = getattr(exc, "problem_mark", None)
-        where = f"line {mark.line + 1}" if mark else ""
-        return [], [RuleProblem(label, None, where, f"not valid YAML: {getattr(exc, 'problem', exc)}")]
-    except (OSError, UnicodeDecodeError) as exc:
-        return [], [RuleProblem(label, None, "", f"cannot read: {exc}")]
+        data = load_yaml_file(path, "rules")
+    except YamlProblem as exc:
+        return [], [RuleProblem(label, None, exc.where, exc.message)]
+    except FileRefused as exc:
+        return [], [RuleProblem(label, None, "", f"not read: {exc.message}")]
     try:
         rf = RuleFile.model_validate(data)
     except ValidationError as exc:
@@ -178,7 +171,40 @@ def load_rules(extra_dirs: tuple[str, ...] = ()) -> RuleSet:
     from advisor.cache import cached
 
     dirs = data_dirs("rules", tuple(extra_dirs))
-    return cached("rules", dirs, lambda: load_dirs(dirs))
+    return cached("rules", dirs, lambda: load_dirs(dirs), _to_cache, _from_cache)
+
+
+def _to_cache(rs: RuleSet) -> dict:
+    """The rule set as plain data for :mod:`advisor.cache`: validated rules and their places."""
+    from advisor.cache import to_data
+
+    return {
+        "rules": [{"rule": to_data(r.rule), "file": r.file, "topic": r.topic} for r in rs.rules],
+        "problems": [to_data(p) for p in rs.problems],
+    }
+
+
+def _from_cache(data: dict) -> RuleSet:
+    """The rule set from cached data (type-checked while rebuilt); conditions and
+    templates are compiled again from their checked text (evaluators are closures)."""
+    from advisor.cache import CacheMismatch, rebuild
+
+    from advisor.rules.model import Rule
+
+    if type(data) is not dict or set(data) != {"rules", "problems"}:
+        raise CacheMismatch("not a cached rule set")
+    rs = RuleSet()
+    for entry in rebuild(list[dict], data["rules"]):
+        rule = rebuild(Rule, entry.get("rule"))
+        file, topic = rebuild(str, entry.get("file")), rebuild(str, entry.get("topic"))
+        try:
+            rs.rules.append(CompiledRule(rule, file, topic, compile_expr(rule.condition),
+                                         compile_template(rule.message, _any_name),
+                                         compile_template(rule.fix, _any_name)))
+        except ExprError as exc:
+            raise CacheMismatch(str(exc)) from None
+    rs.problems = rebuild(list[RuleProblem], data["problems"])
+    return rs
 
 
 def require_clean(rs: RuleSet) -> RuleSet:
