@@ -56,6 +56,10 @@ def test_the_cached_rule_set_behaves_like_the_loaded_one(tmp_path, monkeypatch):
     again = rules_loader._from_cache(json.loads(json.dumps(rules_loader._to_cache(fresh))))
     assert again.to_json() == fresh.to_json()
     for a, b in zip(again.rules, fresh.rules):
+        assert a.rule == b.rule and a.file == b.file and a.topic == b.topic
+        for name in ("condition", "message", "fix", "rework"):
+            x, y = getattr(a, name), getattr(b, name)
+            assert (x is None and y is None) or x.text == y.text, (a.id, name)
         for case in a.rule.cases.fire + a.rule.cases.no_fire:
             assert a.fires(dict(case)) == b.fires(dict(case))
             assert a.finding(dict(case), None) == b.finding(dict(case), None)

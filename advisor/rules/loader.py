@@ -200,7 +200,8 @@ def _from_cache(data: dict) -> RuleSet:
         try:
             rs.rules.append(CompiledRule(rule, file, topic, compile_expr(rule.condition),
                                          compile_template(rule.message, _any_name),
-                                         compile_template(rule.fix, _any_name)))
+                                         compile_template(rule.fix, _any_name),
+                                         compile_template(rule.rework.step, _any_name) if rule.rework is not None else None))
         except ExprError as exc:
             raise CacheMismatch(str(exc)) from None
     rs.problems = rebuild(list[RuleProblem], data["problems"])
