@@ -8,13 +8,14 @@ problem in every file (not only the first) as located messages:
 from __future__ import annotations
 
 import dataclasses
+import math
 from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
 
 from pydantic import BaseModel
 
-from advisor.errors import UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
+from advisor.errors import InputError, UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.files import FileRefused
 from advisor.parts import RESERVED_SOURCES, Family, Lifecycle, Sourced
 from advisor.resources import data_dirs
@@ -74,13 +75,15 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
         problems.append(Problem(file, "sources", f"source id {dup!r} listed twice"))
 
     def visit(obj: object, path: str) -> None:
-        if isinstance(obj, Sourced) or (hasattr(obj, "source") and isinstance(getattr(obj, "source"), str)):
-            src = getattr(obj, "source")
-            if src not in known:
-                problems.append(Problem(file, f"{path}.source", f"unknown source {src!r}; expected one of {sorted(known)}"))
+        # Every field that names a source (``source``, ``retrigger_source``, ...) in every
+        # part of the family, behaviour and lifecycle included.
         if isinstance(obj, BaseModel):
             for name in type(obj).model_fields:
-                visit(getattr(obj, name), f"{path}.{name}" if path else name)
+                value = getattr(obj, name)
+                where = f"{path}.{name}" if path else name
+                if (name == "source" or name.endswith("_source")) and isinstance(value, str) and value not in known:
+                    problems.append(Problem(file, where, f"unknown source {_short(value)}; expected one of {sorted(known)}"))
+                visit(value, where)
         elif isinstance(obj, list):
             for i, item in enumerate(obj):
                 visit(item, f"{path}[{i}]")
@@ -88,8 +91,9 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
             for k, item in obj.items():
                 visit(item, f"{path}.{k}")
 
-    for name in ("supply", "timing", "components", "behaviour", "interface", "packages"):
-        visit(getattr(fam, name), name)
+    for name in type(fam).model_fields:
+        if name != "sources":
+            visit(getattr(fam, name), name)
     for need in REQUIRED_CONSTANTS[fam.timing.law]:
         if not fam.timing.constants.get(need):
             problems.append(Problem(file, f"timing.constants.{need}", f"law {fam.timing.law!r} needs constant {need!r}"))
@@ -103,9 +107,139 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
                 problems.append(Problem(file, f"packages[{i}].pins", f"pin {p.pin} channel {p.channel} outside 1..{fam.channels}"))
         problems.extend(package_problems(fam, i, file))
     problems.extend(behaviour_problems(fam, file))
+    problems.extend(value_problems(fam, file))
     forms = [p.strip().upper() for p in fam.part_numbers]
     for dup in sorted({f for f in forms if forms.count(f) > 1}):
         problems.append(Problem(file, "part_numbers", f"{dup!r} listed twice"))
+    return problems
+
+
+#: Physical ranges for the catalog's numbers (common practice: generous bounds that no
+#: real timer or one-shot comes near; they catch a unit slip, a sign, an overflow such
+#: as 1e308, not a datasheet's tolerance). (low, high, low included, unit)
+_V = (0.0, 100.0, False, "V")
+_CONSTANT = (0.0, 20.0, False, "")  # K-like constants are 0.1..5 in every sheet read
+_FRACTION = (0.0, 1.0, False, "of the supply")
+_OHM_OFFSET = (0.0, 1e5, True, "Ω")
+_R = (0.0, 1e9, False, "Ω")
+_C = (0.0, 1.0, True, "F")
+_BOUNDS: dict[str, tuple[float, float, bool, str]] = {
+    "supply.recommended.min": _V,
+    "supply.recommended.max": _V,
+    "supply.absolute_max": _V,
+    "timing.constants.upper_threshold": _FRACTION,
+    "timing.constants.lower_threshold": _FRACTION,
+    "timing.constants.r_offset": _OHM_OFFSET,
+    "timing.constants.r_discharge": _OHM_OFFSET,
+    "timing.r_internal": (0.0, 1e7, False, "Ω"),
+    "timing.c_linear_min": (0.0, 1e-3, True, "F"),
+    "timing.f_max": (0.0, 1e10, False, "Hz"),
+    "timing.width_min": (0.0, 1e4, True, "s"),
+    "timing.width_max": (0.0, 1e6, False, "s"),
+    "timing.spread": (0.0, 1.0, True, "(a fraction)"),
+    "components.r_min": _R,
+    "components.r_max": _R,
+    "components.c_min": _C,
+    "components.c_max": _C,
+    "behaviour.retrigger_min": (0.0, 1e3, True, "s"),
+    "behaviour.recovery": (0.0, 1e3, True, "s"),
+    "interface.vih": (0.0, 100.0, True, "V"),
+    "interface.vil": (0.0, 100.0, True, "V"),
+    "interface.vih_fraction": _FRACTION,
+    "interface.vil_fraction": _FRACTION,
+    "interface.output_source_ma": (0.0, 1e4, True, "mA"),
+    "interface.output_sink_ma": (0.0, 1e4, True, "mA"),
+}
+#: Conditions a published value holds under: supply (V) and timing capacitance (F).
+_CONDITIONS = {"vcc_min": _V[:2], "vcc_max": _V[:2], "c_min": (0.0, 1.0), "c_max": (0.0, 1.0)}
+
+
+def _sourced(obj: object) -> list[tuple[str, object]]:
+    """(index suffix, Sourced) for a Sourced, a list of them, or None."""
+    if obj is None:
+        return []
+    if isinstance(obj, list):
+        return [(f"[{i}]", s) for i, s in enumerate(obj)]
+    return [("", obj)]
+
+
+def _outside(value: float, bound: tuple[float, float, bool, str]) -> bool:
+    low, high, low_in, _unit = bound
+    return not math.isfinite(value) or value > high or value < low or (value == low and not low_in)
+
+
+def _range_text(bound: tuple[float, float, bool, str]) -> str:
+    low, high, low_in, unit = bound
+    return f"{'≥' if low_in else '>'} {low:g} and ≤ {high:g}{(' ' + unit) if unit else ''}"
+
+
+def value_problems(fam: Family, file: str) -> list[Problem]:
+    """Numbers within physical ranges and in the right order: K > 0, thresholds in 0..1
+    with the lower below the upper, absolute max ≥ recommended max, minimum ≤ maximum."""
+    problems: list[Problem] = []
+
+    def check(path: str, value: float, bound: tuple[float, float, bool, str]) -> None:
+        if _outside(value, bound):
+            problems.append(Problem(file, path, f"{value!r} is not a physical value here; expected {_range_text(bound)}"))
+
+    def values_at(path: str) -> list[tuple[str, float]]:
+        obj: object = fam
+        for part in path.split("."):
+            obj = obj.get(part) if isinstance(obj, dict) else getattr(obj, part, None)
+        if isinstance(obj, (int, float)) and not isinstance(obj, bool):
+            return [(path, float(obj))]
+        return [(f"{path}{i}.value", s.value) for i, s in _sourced(obj) if isinstance(getattr(s, "value", None), (int, float))]
+
+    for path, bound in _BOUNDS.items():
+        for where, value in values_at(path):
+            check(where, value, bound)
+    for name, vals in fam.timing.constants.items():
+        if f"timing.constants.{name}" not in _BOUNDS:
+            for i, s in _sourced(vals):
+                check(f"timing.constants.{name}{i}.value", s.value, _CONSTANT)
+    ups = [v for _p, v in values_at("timing.constants.upper_threshold")]
+    lows = [v for _p, v in values_at("timing.constants.lower_threshold")]
+    if ups and lows and max(lows) >= min(ups):
+        problems.append(Problem(file, "timing.constants.lower_threshold",
+                                f"lower threshold {max(lows):g} is not below the upper threshold {min(ups):g}"))
+    rec_max = fam.supply.recommended.max
+    if fam.supply.absolute_max.value < rec_max:
+        problems.append(Problem(file, "supply.absolute_max.value",
+                                f"absolute maximum {fam.supply.absolute_max.value:g} V is below the recommended "
+                                f"maximum {rec_max:g} V; expected absolute max ≥ recommended max"))
+    for low_name, high_name in (("r_min", "r_max"), ("c_min", "c_max")):
+        lows_ = [v for _p, v in values_at(f"components.{low_name}")]
+        highs = [v for _p, v in values_at(f"components.{high_name}")]
+        if lows_ and highs and min(lows_) > max(highs):
+            problems.append(Problem(file, f"components.{low_name}",
+                                    f"smallest {low_name} {min(lows_):g} is above the largest {high_name} {max(highs):g}"))
+    for pair in (("vil", "vih"), ("vil_fraction", "vih_fraction")):
+        lo = getattr(fam.interface, pair[0], None)
+        hi = getattr(fam.interface, pair[1], None)
+        if lo is not None and hi is not None and lo.value > hi.value:
+            problems.append(Problem(file, f"interface.{pair[0]}.value", f"{pair[0]} {lo.value:g} is above {pair[1]} {hi.value:g}"))
+
+    def conditions(obj: object, path: str) -> None:
+        if isinstance(obj, Sourced):
+            for name, (low, high) in _CONDITIONS.items():
+                v = getattr(obj, name, None)
+                if v is not None and not (math.isfinite(v) and low <= v <= high):
+                    problems.append(Problem(file, f"{path}.{name}", f"{v!r} is outside {low:g}..{high:g}"))
+            for a, b in (("vcc_min", "vcc_max"), ("c_min", "c_max")):
+                lo, hi = getattr(obj, a, None), getattr(obj, b, None)
+                if lo is not None and hi is not None and lo > hi:
+                    problems.append(Problem(file, f"{path}.{a}", f"{a} {lo:g} is above {b} {hi:g}"))
+        if isinstance(obj, BaseModel):
+            for name in type(obj).model_fields:
+                conditions(getattr(obj, name), f"{path}.{name}" if path else name)
+        elif isinstance(obj, list):
+            for i, item in enumerate(obj):
+                conditions(item, f"{path}[{i}]")
+        elif isinstance(obj, dict):
+            for k, item in obj.items():
+                conditions(item, f"{path}.{k}")
+
+    conditions(fam, "")
     return problems
 
 
@@ -383,6 +517,10 @@ def load_catalog(extra: tuple[str, ...] = ()) -> Catalog:
     """The shipped catalog plus user folders and ``extra`` (``--catalog DIR``) folders."""
     from advisor.cache import cached
 
+    for folder in extra:  # a --catalog folder that is not there is an error, never silently nothing
+        if not Path(folder).is_dir():
+            why = "no such folder" if not Path(folder).exists() else "not a folder"
+            raise InputError(f"--catalog {folder!r}: {why}", hint="name a folder of family YAML files")
     dirs = data_dirs("catalog", extra)
     return cached("catalog", dirs, lambda: load_dirs(dirs), _to_cache, lambda data: _from_cache(data, dirs))
 

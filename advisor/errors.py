@@ -86,6 +86,13 @@ def key_path(loc: tuple) -> str:
 
 
 def short_repr(value: object) -> str:
-    """The offending value quoted back, cut to 60 characters."""
-    text = repr(value)
+    """The offending value quoted back, cut to 60 characters (bounded work: a huge or
+    deeply nested value is never turned into text in full)."""
+    import reprlib
+
+    r = reprlib.Repr()
+    r.maxstring = r.maxother = 60
+    r.maxlist = r.maxtuple = r.maxdict = r.maxset = 4
+    r.maxlevel = 2
+    text = r.repr(value)
     return text if len(text) <= 60 else text[:57] + "..."

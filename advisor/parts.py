@@ -58,7 +58,7 @@ RESERVED_SOURCES = ("memory", "common-practice")
 
 class _Frozen(BaseModel):
     # defer_build: a cached catalog (advisor.cache) never pays for schema building.
-    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)
+    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True, allow_inf_nan=False)  # NaN/inf refused
 
 
 class Source(_Frozen):
