@@ -380,7 +380,12 @@ def _model_converter(cls: type) -> Callable[[object], object]:
             if item is _MISSING:
                 if required:
                     raise CacheMismatch(f"{cls.__name__}: {name} missing")
-                values[name] = info.get_default(call_default_factory=True)
+                factory = info.default_factory
+                if factory is not None:
+                    values[name] = factory()
+                else:  # info.get_default would import pydantic's deep-copy helpers on every call
+                    d = info.default
+                    values[name] = d.copy() if isinstance(d, (list, dict, set)) else d
                 continue
             values[name] = conv(item)
         obj = new(cls)
