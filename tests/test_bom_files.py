@@ -138,6 +138,24 @@ def test_a_later_sheet_with_the_bom_is_read_and_named(tmp_path, catalog):
     assert missing.returncode == 2 and "'Notes', 'Parts'" in missing.stderr
 
 
+def test_a_row_that_breaks_the_engine_comes_back_with_its_reason(tmp_path, catalog):
+    """R = 0 in a 555 (the law divides by the timing resistance): that row gets a
+    reason, the rows around it are reviewed."""
+    src = tmp_path / "bom.csv"
+    src.write_text("Ref,MPN,R,C,VCC\nU1,NE555P,10k,10n,5\nU2,NE555P,0,10n,5\nU3,CD4538BE,100k,10n,5\n",
+                   encoding="utf-8")
+    table = read_table(src)
+    res = review_bom(table, catalog)
+    assert refs(table, res) == ["U1", "U2", "U3"]
+    u1, u2, u3 = res.reviews
+    assert u1.status == "reviewed" and u1.alternates
+    assert u2.reason, "the R = 0 row says why it was not judged"
+    assert u3.status == "reviewed" and u3.family == "CD4538B"
+    done = run_cli("bom", str(src), "--json")
+    assert done.returncode == 0, done.stderr
+    assert [row["line"] for row in json.loads(done.stdout)["rows"]] == [2, 3, 4]
+
+
 FORMULAS = [
     ["Ref", "MPN", "Note", "Qty"],
     ["U1", "NE555P", '=HYPERLINK("http://example.invalid/x","open")', "1"],
