@@ -120,8 +120,9 @@ def _on_sigterm(signum, frame):
 def atomic_write(path: str | os.PathLike, data: bytes, *, what: str = "output") -> Path:
     """Write ``data`` to ``path`` atomically (see the module docstring); returns the path.
 
-    An OS error (missing or read-only folder, full disk) becomes an :class:`InputError`
-    naming ``what`` and the path; the temporary file is removed on every exit path.
+    A missing folder is an :class:`InputError`; an OS error (read-only folder, full disk)
+    is re-raised as an ``OSError`` naming the folder or the target (the CLI prints
+    ``path: reason`` and exits 2); the temporary file is removed on every exit path.
     """
     import signal
     import tempfile
@@ -142,8 +143,8 @@ def atomic_write(path: str | os.PathLike, data: bytes, *, what: str = "output") 
     try:
         try:
             fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
-        except OSError as exc:
-            raise InputError(f"{what} {str(target)!r}: cannot write there ({exc.strerror or exc})") from None
+        except OSError as exc:  # the CLI prints "path: reason" and exits 2 (advisor.cli.main)
+            raise OSError(exc.errno, exc.strerror or str(exc), str(folder)) from None
         try:
             with os.fdopen(fd, "wb") as fh:
                 fh.write(data)
@@ -153,7 +154,7 @@ def atomic_write(path: str | os.PathLike, data: bytes, *, what: str = "output") 
             os.replace(tmp, target)
             tmp = None
         except OSError as exc:
-            raise InputError(f"{what} {str(target)!r}: cannot write ({exc.strerror or exc})") from None
+            raise OSError(exc.errno, exc.strerror or str(exc), str(target)) from None
     finally:
         if tmp is not None:
             try:
