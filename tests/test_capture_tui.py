@@ -42,11 +42,21 @@ def shown(app, selector: str) -> str:
 
 
 async def put(pilot, field: str, text: str) -> None:
-    """Set a field's text (as a paste would) and wait past the workspace's debounce."""
-    box = pilot.app.screen.query_one(f"#f-{field}", Input)
+    """Set a field's text (as a paste would) and wait until the desk has recomputed from it.
+
+    Waits on the desk's own state (a new outcome, no debounce timer pending), not on a
+    fixed pause: a loaded machine runs the debounced recompute late.
+    """
+    screen = pilot.app.screen
+    box = screen.query_one(f"#f-{field}", Input)
     box.focus()
+    before = screen.outcome
     box.value = text
     await pilot.pause(0.3)
+    for _ in range(200):
+        if screen.outcome is not before and screen._timer is None:
+            break
+        await pilot.pause(0.05)
 
 
 async def start(pilot, part: str = "NE555") -> None:
