@@ -121,7 +121,7 @@ FLAG_FIELD = {
     "--target-period": "target", "--target-freq": "target", "--new-vcc": "new_vcc", "--series": "series",
     "--old-package": "old_package", "--new-package": "new_package", "--keep-within": "keep_within",
     "--report": "report", "--pot-in": "pot_in", "--maker": "maker", "--c-series": "c_series",
-    "--pot-tol": "pot_tol",
+    "--pot-tol": "pot_tol", "--pot-end": "pot_end",
 }
 #: Flags that are not circuit inputs (output form, catalog location, check-only statistics).
 NOT_ON_THE_FORM = {"--json", "--catalog", "--no-picture", "--help", "--fail-on", "--range", "--monte-carlo"}
@@ -158,8 +158,10 @@ async def test_turning_the_trimmer_moves_the_edge_on_a_fixed_axis():
         assert ax == axis_for(facts_of(b_data))
         cols = width - 10
         wa, wb = a_data["timing"]["nominal"]["width"], b_data["timing"]["nominal"]["width"]
-        # Philips 74HC/HCT221 (1990): t = 0.7·R·C; the trimmer adds 6 kΩ of the 10 kΩ between the settings.
-        assert wb - wa == pytest.approx(0.7 * 0.6 * 10e3 * 10e-9, rel=1e-6)
+        # Philips 74HC/HCT221 (1990): t = 0.7·R·C. Between the settings the wiper sweeps 0.6 of the
+        # trimmer's travel; the travel is its 10 kΩ less the end resistance left at each stop
+        # (1 % of the value by default, DEVELOPERS "trimmers": 100 Ω each), so 0.6·9.8 kΩ.
+        assert wb - wa == pytest.approx(0.7 * 0.6 * (10e3 - 2 * 100) * 10e-9, rel=1e-6)
         out_row = [i for i, line in enumerate(a_text) if line.startswith("output")][0] + 1
         fall_a, fall_b = a_text[out_row].index("└"), b_text[out_row].index("└")
         expected = column(ax.lead + wb, ax, cols) - column(ax.lead + wa, ax, cols)

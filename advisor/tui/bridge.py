@@ -44,6 +44,10 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("c", "C (Cext)", "capacitance", "e.g. 10n, 2n2", "timing capacitor"),
     FieldSpec("pot", "Trimmer", "resistance", "e.g. 10k", "variable resistor in series with R (RB in an astable)"),
     FieldSpec("pot_setting", "Trimmer set", "fraction", "0..1 or 50%", "share of the trimmer's travel in circuit"),
+    FieldSpec("pot_in", "Trimmer with", "choice", "ra / rb", "555 astable: the resistor the trimmer sits with (blank: RA)",
+              ("ra", "rb")),
+    FieldSpec("pot_tol", "Trimmer tol.", "fraction", "blank = 20%", "the trimmer's own tolerance on its full value"),
+    FieldSpec("pot_end", "Trimmer ends", "resistance", "blank = its class", "resistance left at each stop of the trimmer"),
     FieldSpec("cont", "CONT driven", "voltage", "blank = open", "a 555's control pin driven to this voltage (V)"),
     FieldSpec("trigger_period", "Trigger period", "time", "e.g. 64us", "time between trigger edges"),
     FieldSpec("trigger_edge", "Trigger edge", "choice", "rising / falling",
@@ -70,7 +74,8 @@ FIELD_BY_KEY = {f.key: f for f in FIELDS}
 
 #: The form's sections: heading and the keys under it.
 SECTIONS: tuple[tuple[str, tuple[str, ...]], ...] = (
-    ("Parts and network", ("old", "new", "mode", "vcc", "new_vcc", "r", "rb", "c", "pot", "pot_setting", "cont")),
+    ("Parts and network", ("old", "new", "mode", "vcc", "new_vcc", "r", "rb", "c", "pot", "pot_setting", "pot_in", "pot_tol",
+                           "pot_end", "cont")),
     ("Trigger", ("trigger_period", "trigger_edge", "trigger_high")),
     ("Measurement and target", ("measured", "measured_quantity", "target", "target_quantity")),
     ("Tolerances and values", ("r_tol", "c_tol", "series", "keep_within", "maker")),
@@ -97,7 +102,8 @@ ALL_FIELDS: tuple[FieldSpec, ...] = FIELDS + CAPTURE_FIELDS + REPORT_FIELDS
 
 #: Command-line flags the engine's messages name, and the form field a workbench user edits.
 _FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "rb": "RB", "c": "C",
-               "pot": "Trimmer", "pot-setting": "Trimmer set", "trigger-period": "Trigger period",
+               "pot": "Trimmer", "pot-setting": "Trimmer set", "pot-in": "Trimmer with",
+               "pot-tol": "Trimmer tol.", "pot-end": "Trimmer ends", "trigger-period": "Trigger period",
                "trigger-edge": "Trigger edge", "trigger-high": "Trigger high", "mode": "Mode",
                "measured-width": "Measured", "measured-high": "Measured", "measured-low": "Measured",
                "measured-period": "Measured", "measured-from": "Capture file", "target-width": "Target",
@@ -324,6 +330,9 @@ def build_circuit(part: str, v: dict[str, object], measured=None, catalog=None) 
         c=v.get("c"),  # type: ignore[arg-type]
         pot=v.get("pot"),  # type: ignore[arg-type]
         pot_setting=v.get("pot_setting"),  # type: ignore[arg-type]
+        pot_in=v.get("pot_in"),  # type: ignore[arg-type]
+        pot_tol=v.get("pot_tol"),  # type: ignore[arg-type]
+        pot_end=v.get("pot_end"),  # type: ignore[arg-type]
         r_tol=v.get("r_tol"),  # type: ignore[arg-type]
         c_tol=v.get("c_tol"),  # type: ignore[arg-type]
         trigger=Trigger(v.get("trigger_period"), v.get("trigger_edge"), v.get("trigger_high")),  # type: ignore[arg-type]
