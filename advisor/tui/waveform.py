@@ -204,19 +204,10 @@ def _levels(intervals: list[tuple[float, float]], span: float, cols: int) -> lis
 
 
 def _rows(levels: list[bool]) -> tuple[str, str]:
-    top, bottom = [], []
-    prev = levels[0] if levels else False
-    for i, lv in enumerate(levels):
-        if i and lv and not prev:
-            top.append("┌"); bottom.append("┘")
-        elif i and prev and not lv:
-            top.append("┐"); bottom.append("└")
-        elif lv:
-            top.append("─"); bottom.append(" ")
-        else:
-            top.append(" "); bottom.append("─")
-        prev = lv
-    return "".join(top), "".join(bottom)
+    """The capture row drawn with the one text-picture stroke (advisor.picture)."""
+    from advisor.picture import two_lines
+
+    return two_lines(levels)
 
 
 #: Colour of each row of :func:`advisor.picture.picture_rows`.
