@@ -1,10 +1,11 @@
 """Alternates: every catalog family that can do the old part's job at the (new) supply, ranked.
 
 A family can do the job when its function has the circuit's mode (a one-shot
-cannot replace an astable; a 555-class timer or a 4047 can replace either) and
-the supply lies in its recommended range. Each such family gets a full
-:func:`advisor.substitute.swap.swap`; the ``unsuitable`` ones and the families that
-fail are listed under ``rejected`` with the reason. The ranking and each
+cannot replace an astable; a 555-class timer or a 4047 can replace either). Each
+such family gets a full :func:`advisor.substitute.swap.swap`, judged by the rules
+alone (a supply outside the family's range is the rules' finding, not a pre-screen);
+the ``unsuitable`` ones and the families that fail are listed under ``rejected``
+with the fired finding's message. The ranking and each
 candidate's one-line reason are :mod:`advisor.substitute.rank`'s. Obsolete
 families are left out (named in ``left_out``) unless ``include_obsolete`` is set or
 no family still made can do the job; when listed they come after every other one.
@@ -69,10 +70,9 @@ def alternates(
             continue
         if fam.function not in CAN_DO[old_t.mode]:
             continue  # not the same job: not listed at all
-        rec = fam.supply.recommended
-        if not rec.min - 1e-9 <= vcc <= rec.max + 1e-9:
-            rejected.append(Rejected(fam.id, f"runs from {rec.min:g} to {rec.max:g} V, not at {vcc:g} V"))
-            continue
+        # No supply pre-screen here: a family outside its recommended supply is judged by the
+        # rules like any other (supply-outside-recommended declares swap_class: unsuitable) and
+        # lands in `rejected` with that finding's own message.
         try:
             r = swap(catalog, old.id, fam.id, circuit, new_vcc=vcc, series=series, old_result=old_t,
                      keep_within=keep_within)
