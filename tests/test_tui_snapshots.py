@@ -72,10 +72,19 @@ def test_help_card(snap_compare):
     assert snap_compare(Workbench(tiny_catalog()), press=["f1", "_"], terminal_size=SIZE)
 
 
+def steady_cursor(pilot) -> None:
+    """A blinking text cursor is drawn or not by the clock: hold it steady so the picture is too."""
+    from textual.widgets import Input
+
+    for box in pilot.app.screen.query(Input):
+        box.cursor_blink = False
+
+
 def test_workspace_with_a_bad_value(snap_compare):
     async def type_form(pilot) -> None:
         await pilot.press("f3")
         await pilot.pause()
+        steady_cursor(pilot)
         await pilot.press(*"74HC221", "tab", "tab", "tab", "5", "tab", "tab", *"4x7")
         await pilot.pause(1.0)  # the debounced recompute, with room for a loaded machine
 
@@ -91,6 +100,7 @@ def test_desk_with_a_result_keeps_numbers_whole(snap_compare, size):
         await pilot.press("f3")
         await pilot.pause()
         screen = pilot.app.screen
+        steady_cursor(pilot)
         for key, text in (("old", "74HC221"), ("vcc", "5"), ("r", "10k"), ("c", "10n"), ("trigger_period", "100us")):
             screen.query_one(f"#f-{key}").value = text
         await pilot.pause(1.5)
