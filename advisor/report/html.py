@@ -12,18 +12,12 @@ from __future__ import annotations
 from html import escape
 
 from advisor import __version__
+from advisor.presentation import CLASS_WORDS
 from advisor.report import diagrams
 from advisor.report.model import CaptureView, Quantity, Report, Table
 
 SEVERITY_TITLES = {"danger": "Stop: must be fixed", "warning": "Check before fitting", "note": "Worth knowing"}
 
-CLASS_WORDS = {
-    "drop-in": "fits the socket as it is",
-    "drop-in-new-values": "fits the socket with new R/C values",
-    "rewire": "needs rewiring (pins move)",
-    "redesign": "needs a redesigned network",
-    "unsuitable": "not suitable",
-}
 
 _CSS = """
 :root { --ink:#1f2a33; --muted:#5b6670; --line:#d5dbe0; --paper:#ffffff; --band:#f3f5f7;
