@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from collections import Counter
 from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
@@ -70,8 +71,9 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
     """Checks the grammar alone cannot make: sources resolve, law constants present."""
     problems: list[Problem] = []
     known = {s.id for s in fam.sources} | set(RESERVED_SOURCES)
-    ids = [s.id for s in fam.sources]
-    for dup in {i for i in ids if ids.count(i) > 1}:
+    # Counted once each (Counter), never list.count per item: a family may list 20 000
+    # part numbers (an approved-parts list), and a count per item made loading quadratic.
+    for dup in sorted(i for i, n in Counter(s.id for s in fam.sources).items() if n > 1):
         problems.append(Problem(file, "sources", f"source id {dup!r} listed twice"))
 
     def visit(obj: object, path: str) -> None:
@@ -108,8 +110,8 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
         problems.extend(package_problems(fam, i, file))
     problems.extend(behaviour_problems(fam, file))
     problems.extend(value_problems(fam, file))
-    forms = [p.strip().upper() for p in fam.part_numbers]
-    for dup in sorted({f for f in forms if forms.count(f) > 1}):
+    forms = Counter(p.strip().upper() for p in fam.part_numbers)
+    for dup in sorted(f for f, n in forms.items() if n > 1):
         problems.append(Problem(file, "part_numbers", f"{dup!r} listed twice"))
     return problems
 

@@ -146,3 +146,27 @@ def test_a_family_without_part_to_part_spread_is_a_catalog_error(tmp_path):
     (tmp_path / "test1.yaml").write_text(yaml.safe_dump(data), encoding="utf-8")
     cat = load_dirs([tmp_path])
     assert any(p.path == "timing.spread" for p in cat.problems)
+
+
+def test_a_family_listing_20000_part_numbers_loads_and_resolves(tmp_path):
+    """A user folding an approved-parts list into one family (issue 18): every listed
+    number resolves to it, a repeated number is still named once, and another family's
+    number is still refused. Speed is measured in tests/bench/catalog_20k_parts.py."""
+    from advisor.resources import data_dir
+    from support.big_family import FAMILY_ID, big_family_numbers, write_big_family
+
+    numbers = write_big_family(tmp_path, 20_000)
+    cat = load_dirs([data_dir("catalog"), tmp_path])
+    assert _msgs(cat) == []
+    assert len(cat.get(FAMILY_ID).part_numbers) == 20_000
+    for pn in (numbers[0], numbers[12_345], numbers[-1].lower(), f" {numbers[999]} "):
+        assert cat.resolve(pn).id == FAMILY_ID, pn
+    assert cat.resolve("NE555P").id == "NE555"  # the shipped families are untouched
+
+    text = (tmp_path / "xb555.yaml").read_text(encoding="utf-8")
+    dup = big_family_numbers(20_000)[17]
+    (tmp_path / "xb555.yaml").write_text(text.replace("part_numbers: [", f"part_numbers: [{dup}, NE555, "),
+                                         encoding="utf-8")
+    msgs = _msgs(load_dirs([data_dir("catalog"), tmp_path]))
+    assert sum(f"{dup!r} listed twice" in m for m in msgs) == 1, msgs
+    assert any("'NE555' is listed by 2 families" in m for m in msgs), msgs
