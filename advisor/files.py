@@ -11,7 +11,13 @@ folder (so the rename cannot cross file systems), is flushed to the disk (``fsyn
 given the mode an ordinary new file gets under the user's umask (0644 under umask
 022, where ``mkstemp`` alone would leave 0600), and renamed over the target in one
 step. A failure, Ctrl-C or SIGTERM during the write removes the temporary file, so
-no half-written output and no stray temporary file is left behind.
+no half-written output and no stray temporary file is left behind. A target that
+exists and is not a regular file (a device such as ``/dev/null`` or ``/dev/full``, a
+FIFO, a folder, or a symbolic link to one) is refused before anything is written
+(:func:`refuse_unwritable_target`): the rename would otherwise put a plain file in
+place of a device node when run as root. The commands check their output flags with
+the same function when the command line is read (``advisor.cli.options.output_path``),
+so nothing is computed or written when one of them is refused.
 """
 
 from __future__ import annotations
@@ -117,10 +123,41 @@ def _on_sigterm(signum, frame):
     raise _Terminated(128 + signum)
 
 
+def target_problem(path: str | os.PathLike) -> str | None:
+    """Why ``path`` cannot be an output file (None: it is a regular file or not there yet).
+
+    The target is looked at through a symbolic link (``os.stat``), so a link to
+    ``/dev/null`` is a device here too; a dangling link or a missing file is fine
+    (the write creates the file).
+    """
+    p = str(path)
+    try:
+        st = os.stat(p)
+    except (FileNotFoundError, NotADirectoryError):
+        return None
+    except OSError:
+        return None  # the write itself will say why (permission, loop), with the path
+    if stat.S_ISREG(st.st_mode):
+        return None
+    kind = "a folder" if stat.S_ISDIR(st.st_mode) else _kind_of(st.st_mode)
+    if os.path.islink(p):
+        kind = f"a symbolic link to {kind} ({os.path.realpath(p)!r})"
+    return f"{p!r} is {kind}, not a regular file; nothing was written (name an ordinary file)"
+
+
+def refuse_unwritable_target(path: str | os.PathLike, what: str = "output") -> None:
+    """Raise :class:`FileRefused` (exit 2, one line naming ``what`` and the path) when
+    ``path`` exists and is not a regular file."""
+    why = target_problem(path)
+    if why is not None:
+        raise FileRefused(f"{what} {why}")
+
+
 def atomic_write(path: str | os.PathLike, data: bytes, *, what: str = "output") -> Path:
     """Write ``data`` to ``path`` atomically (see the module docstring); returns the path.
 
-    A missing folder is an :class:`InputError`; an OS error (read-only folder, full disk)
+    A target that is not a regular file is refused (:func:`refuse_unwritable_target`);
+    a missing folder is an :class:`InputError`; an OS error (read-only folder, full disk)
     is re-raised as an ``OSError`` naming the folder or the target (the CLI prints
     ``path: reason`` and exits 2); the temporary file is removed on every exit path.
     """
@@ -129,6 +166,7 @@ def atomic_write(path: str | os.PathLike, data: bytes, *, what: str = "output") 
     import threading
 
     target = Path(path)
+    refuse_unwritable_target(target, what)
     folder = target.parent if str(target.parent) else Path(".")
     if not folder.is_dir():
         raise InputError(f"{what} {str(target)!r}: folder {str(folder)!r} does not exist")
@@ -151,6 +189,7 @@ def atomic_write(path: str | os.PathLike, data: bytes, *, what: str = "output") 
                 fh.flush()
                 os.fsync(fh.fileno())
             os.chmod(tmp, 0o666 & ~current_umask())  # mkstemp makes 0600; outputs are ordinary files
+            refuse_unwritable_target(target, what)  # again: it may have become a device meanwhile
             os.replace(tmp, target)
             tmp = None
         except OSError as exc:

@@ -146,3 +146,104 @@ def test_writing_into_a_missing_folder_is_an_input_error(tmp_path):
 
     with pytest.raises(InputError, match="does not exist"):
         atomic_write(tmp_path / "no" / "out.csv", b"x")
+
+
+# --- output targets that are not regular files (issue 18) ---------------------------------
+
+
+@pytest.fixture
+def odd_targets(tmp_path):
+    """Each kind of existing non-regular target: a device, a FIFO, a folder, links to them."""
+    (tmp_path / "folder.csv").mkdir()
+    os.mkfifo(tmp_path / "pipe.csv")
+    os.symlink("/dev/null", tmp_path / "to-null.md")
+    os.symlink(tmp_path / "folder.csv", tmp_path / "to-folder.csv")
+    return {
+        "/dev/full": "a character device",
+        "/dev/null": "a character device",
+        str(tmp_path / "folder.csv"): "a folder",
+        str(tmp_path / "pipe.csv"): "a FIFO",
+        str(tmp_path / "to-null.md"): "a symbolic link to a character device ('/dev/null')",
+        str(tmp_path / "to-folder.csv"): f"a symbolic link to a folder ({str(tmp_path / 'folder.csv')!r})",
+    }
+
+
+def _unchanged(path: str) -> None:
+    import stat
+
+    if path.startswith("/dev/"):
+        assert stat.S_ISCHR(os.stat(path).st_mode), f"{path} is no longer a device"
+
+
+def test_the_atomic_writer_refuses_a_target_that_is_not_a_regular_file(odd_targets, tmp_path):
+    for path, kind in odd_targets.items():
+        with pytest.raises(FileRefused) as exc:
+            atomic_write(path, b"data", what="-o")
+        assert exc.value.render() == f"-o {path!r} is {kind}, not a regular file; nothing was written (name an ordinary file)"
+        _unchanged(path)
+    # nothing left behind: no temporary file beside the targets, the FIFO and folder untouched
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["folder.csv", "pipe.csv", "to-folder.csv", "to-null.md"]
+    assert list((tmp_path / "folder.csv").iterdir()) == []
+    # a regular file and a dangling link are ordinary targets
+    atomic_write(tmp_path / "plain.csv", b"one")
+    os.symlink(tmp_path / "gone.csv", tmp_path / "dangling.csv")
+    atomic_write(tmp_path / "dangling.csv", b"two")
+    assert (tmp_path / "plain.csv").read_bytes() == b"one" and (tmp_path / "dangling.csv").read_bytes() == b"two"
+
+
+BOM_CSV = "Ref,Part,R,C\nU1,NE555,10k,10n\n"
+
+
+@pytest.mark.parametrize("flags", [["-o", "{t}"], ["--report", "{t}"], ["-o", "{ok}", "--report", "{t}"]])
+def test_bom_refuses_an_output_that_is_not_a_regular_file_before_writing_anything(odd_targets, tmp_path, flags):
+    from support.inprocess import retime
+
+    bom = tmp_path / "in.csv"
+    bom.write_text(BOM_CSV, encoding="utf-8")
+    ok = tmp_path / "written.csv"
+    for target, kind in odd_targets.items():
+        if "--report" in flags and not target.endswith(".md"):
+            continue  # a report needs an .md/.html name (the link to /dev/null is one)
+        argv = ["bom", str(bom)] + [f.format(t=target, ok=ok) for f in flags]
+        run = retime(*argv)
+        flag = "--report" if "--report" in flags else "-o"
+        assert run.code == 2, (argv, run)
+        assert run.err.count("\n") == 1 and f"{target!r} is {kind}, not a regular file" in run.err, run.err
+        assert f"argument {flag}" in run.err or f"argument -o/--output" in run.err, run.err
+        assert not ok.exists(), "the good -o was written before the bad --report was refused"
+        assert run.out == ""
+        _unchanged(target)
+
+
+@pytest.mark.parametrize("command", [["check", "NE555", "--r", "10k", "--c", "10n"],
+                                     ["swap", "NE555", "TLC555", "--r", "10k", "--c", "10n", "--vcc", "5"],
+                                     ["alternates", "NE555", "--r", "10k", "--c", "10n", "--vcc", "5"],
+                                     ["board", "advisor/data/demo/bench_pulse_generator.kicad_sch"]])
+def test_every_report_flag_refuses_a_device_or_a_fifo(command, tmp_path):
+    from support.inprocess import retime
+
+    os.mkfifo(tmp_path / "pipe.html")
+    os.symlink("/dev/full", tmp_path / "full.md")
+    for target, kind in ((tmp_path / "pipe.html", "a FIFO"),
+                         (tmp_path / "full.md", "a symbolic link to a character device ('/dev/full')")):
+        cwd = os.getcwd()
+        os.chdir(ROOT)
+        try:
+            run = retime(*command, "--report", str(target))
+        finally:
+            os.chdir(cwd)
+        assert run.code == 2 and f"argument --report: {str(target)!r} is {kind}, not a regular file" in run.err, run
+        assert run.out == ""
+    _unchanged("/dev/full")
+
+
+def test_a_regular_output_and_a_new_one_still_work(tmp_path):
+    from support.inprocess import retime
+
+    bom = tmp_path / "in.csv"
+    bom.write_text(BOM_CSV, encoding="utf-8")
+    old = tmp_path / "old.csv"
+    old.write_text("stale\n", encoding="utf-8")
+    run = retime("bom", str(bom), "-o", str(old), "--report", str(tmp_path / "new.md"))
+    assert run.code == 0, run
+    assert "retime_status" in old.read_text(encoding="utf-8") and (tmp_path / "new.md").is_file()

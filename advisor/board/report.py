@@ -106,27 +106,12 @@ def render_html(j: dict, catalog=None) -> str:
 
 
 def write_board_report(j: dict, path: str, catalog=None) -> Path:
-    """Write the report (format by extension) atomically; returns the path written."""
-    import os
-    import tempfile
-
-    from advisor.errors import InputError
+    """Write the report (format by extension) with the one atomic writer
+    (:func:`advisor.files.atomic_write`: no half-written or stray file, a device or
+    folder target refused); returns the path written."""
+    from advisor.files import atomic_write
     from advisor.report import report_format
 
     fmt = report_format(path)
     text = render_html(j, catalog) if fmt == "html" else render_markdown(j, catalog)
-    target = Path(path)
-    folder = target.parent if str(target.parent) else Path(".")
-    if not folder.is_dir():
-        raise InputError(f"--report {str(path)!r}: folder {str(folder)!r} does not exist")
-    try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
-            fh.write(text)
-        mask = os.umask(0o022)
-        os.umask(mask)
-        os.chmod(tmp, 0o666 & ~mask)
-        os.replace(tmp, target)
-    except OSError as exc:
-        raise InputError(f"--report {str(path)!r}: cannot write there ({exc.strerror})") from None
-    return target
+    return atomic_write(path, text.encode("utf-8"), what="--report")

@@ -16,7 +16,10 @@ DESCRIPTION = (
 
 def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("file", metavar="FILE", help="BOM as .csv/.tsv/.txt or .xlsx")
-    p.add_argument("-o", "--output", metavar="OUT", help="write the reviewed BOM (.csv, .xlsx, .json or .md)")
+    from advisor.cli.options import output_path
+
+    p.add_argument("-o", "--output", metavar="OUT", type=output_path,
+                   help="write the reviewed BOM (.csv, .xlsx, .json or .md)")
     p.add_argument("--part-column", metavar="NAME", help="header (or 1-based number) of the part-number column")
     p.add_argument("--sheet", metavar="NAME", help="workbook sheet to read (default: the first with a part-number column)")
     p.add_argument("--new-vcc", metavar="V", help="the supply the board moves to (V)")

@@ -237,6 +237,22 @@ def _makers_from_args(args: argparse.Namespace) -> dict:
 # --- reports (--report FILE on check, swap, alternates and bom) ---------------------
 
 
+def output_path(text: str) -> str:
+    """argparse type for every flag naming a file the command writes (``-o``, ``--report``):
+    a target that exists and is not a regular file (``/dev/null``, a FIFO, a folder, a
+    link to one) is refused while the command line is read, so nothing is computed or
+    written first (exit 2, one line with the path). ``-`` (standard output, where a
+    command takes it) passes. The atomic writer checks again when it writes."""
+    from advisor.files import target_problem
+
+    if text == "-":
+        return text
+    why = target_problem(text)
+    if why is not None:
+        raise argparse.ArgumentTypeError(why)
+    return text
+
+
 def _report_path(text: str) -> str:
     """argparse type for --report: the format must be clear from the extension."""
     from pathlib import Path
@@ -246,7 +262,7 @@ def _report_path(text: str) -> str:
         raise argparse.ArgumentTypeError(
             f"cannot tell the report format from {text!r}; name the file .html, .htm or .md"
         )
-    return text
+    return output_path(text)
 
 
 def add_report_option(p: argparse.ArgumentParser) -> None:
