@@ -65,6 +65,19 @@ def test_a_quoted_cell_over_two_lines_is_one_cell(tmp_path, catalog):
     assert table.line_of(2) == 4 and not table.row_problems
 
 
+def test_a_cell_holding_only_a_line_break_is_one_row(tmp_path, catalog):
+    """What Python's csv writer makes of a cell that is a line break: the closing line
+    looks like a row of its own, but it closes the cell and completes the row's width
+    (found by tests/test_fuzz_inputs.py)."""
+    src = tmp_path / "bom.csv"
+    buf = io.StringIO(newline="")
+    csv.writer(buf).writerows([["Part", "R", "C", "Supply"], ["\n", "1.5", "1.5", "1.5"], ["NE555P", "10k", "10n", "5"]])
+    src.write_text(buf.getvalue(), encoding="utf-8")
+    table = read_table(src)
+    assert table.rows[1:] == [["\n", "1.5", "1.5", "1.5"], ["NE555P", "10k", "10n", "5"]]
+    assert not table.row_problems and len(review_bom(table, catalog).reviews) == 2
+
+
 def test_utf16_unicode_text_with_its_mark(tmp_path, catalog):
     """A spreadsheet's "Unicode text": UTF-16 LE with a byte-order mark, tab-separated."""
     text = "Ref\tPart Number\tC\r\nU1\tSN74LS221N\t10 µF\r\nU2\tNE555P\t\r\nR1\tCRCW060310K0FKEA\t\r\n"

@@ -185,10 +185,15 @@ def _split_lines(text: str, delim: str) -> tuple[list[list[str]], list[int], dic
         joined, end = line, None
         for j in range(i + 1, min(len(lines), i + MAX_CELL_LINES)):
             inner = lines[j]
-            if typical > 2 and inner.count(delim) >= typical - 1:
-                break  # this line looks like a row of its own: the quote was a stray one
-            joined += "\n" + inner
-            if not _ends_in_quotes(joined, delim):
+            candidate = joined + "\n" + inner
+            closes = not _ends_in_quotes(candidate, delim)
+            # A line that closes the open cell and completes a row of the usual width ends a
+            # multi-line cell ('"\n",1.5,...' as csv writes a cell holding a line break) ...
+            completes = closes and typical > 0 and len(_csv_row(candidate, delim)) == typical
+            if typical > 2 and inner.count(delim) >= typical - 1 and not completes:
+                break  # ... any other line that looks like a row of its own: the quote was a stray one
+            joined = candidate
+            if closes:
                 end = j
                 break
         cells = _csv_row(joined, delim) if end is not None else None
