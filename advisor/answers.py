@@ -250,6 +250,8 @@ class BomAnswer(_Answer):
     file: str
     rows: list[BomRow]
     summary: dict[str, int]
+    #: What the whole review assumed: shipped families or rules a user folder replaced (advisor.overrides).
+    assumptions: list[str] = Field(default_factory=list)
 
     def to_frame(self):
         """One row per BOM line: its cells, then status, family, best alternate and class."""
@@ -352,6 +354,8 @@ class BoardAnswer(_Answer):
     plan: list[BoardPlanItem]
     bom_delta: dict[str, Any]
     unresolved: list[Any] = Field(default_factory=list)
+    #: What the whole plan assumed: shipped families or rules a user folder replaced (advisor.overrides).
+    assumptions: list[str] = Field(default_factory=list)
 
     def to_frame(self):
         """One row per planned timer: reference, class, and the board's note."""

@@ -52,6 +52,7 @@ GRAMMAR_FILES = (
     "parts.py", "catalog.py", "cache.py", "files.py", "yamlload.py", "errors.py", "resources.py",
     "rules/model.py", "rules/context.py", "rules/loader.py", "rules/engine.py",
     "rules/safe_expr.py", "rules/template.py", "timing/laws.py", "timing/registry.py", "findings.py",
+    "overrides.py",
 )
 
 _PACKAGE = Path(__file__).resolve().parent

@@ -393,6 +393,8 @@ class Catalog:
     files: dict[str, str] = field(default_factory=dict)  # id -> file it came from
     problems: list[Problem] = field(default_factory=list)
     makers: "MakerBook" = field(default_factory=lambda: _empty_book())  # catalog/makers.yaml
+    #: Shipped families a user folder replaced (advisor.overrides: listed in every answer).
+    overrides: list["Override"] = field(default_factory=list)
 
     def ids(self) -> list[str]:
         return sorted(self.families, key=_natural)
@@ -481,12 +483,15 @@ def _natural(text: str) -> tuple:
 
 def load_dirs(dirs: list[Path]) -> Catalog:
     """Load every ``*.yaml`` in ``dirs``; later folders override earlier ones by id."""
+    from advisor.overrides import Override
+
     cat = Catalog()
-    for d in dirs:
+    shipped: set[str] = set()  # ids whose entry came from the shipped folder (dirs[0])
+    for n, d in enumerate(dirs):
         for path in sorted(Path(d).glob("*.yaml")):
             if path.name.startswith("_"):
                 continue
-            label = f"catalog/{path.name}" if d == dirs[0] else str(path)
+            label = f"catalog/{path.name}" if n == 0 else str(path)
             if path.name == MAKERS_FILE:
                 _load_makers(cat, path, label)
                 continue
@@ -505,8 +510,16 @@ def load_dirs(dirs: list[Path]) -> Catalog:
             extra = family_problems(fam, label)
             cat.problems.extend(extra)
             key = fam.id.upper()
-            if key in cat.families and cat.files[key].startswith("catalog/") == label.startswith("catalog/"):
-                cat.problems.append(Problem(label, "id", f"family id {fam.id!r} also defined in {cat.files[key]}"))
+            if key in cat.families:
+                # Origin by folder, not by label: a user folder may itself be named "catalog".
+                if (key in shipped) == (n == 0):
+                    cat.problems.append(Problem(label, "id", f"family id {fam.id!r} also defined in {cat.files[key]}"))
+                else:  # a user folder replaces a shipped family: every answer says so
+                    cat.overrides.append(Override("family", fam.id, label, cat.files[key]))
+            if n == 0:
+                shipped.add(key)
+            else:
+                shipped.discard(key)
             cat.families[key] = fam
             cat.files[key] = label
     cat.problems.extend(catalog_problems(cat))
@@ -545,11 +558,13 @@ def _from_cache(data: dict, dirs: list[Path]) -> Catalog:
 
     from advisor.makers import MakerBook
 
+    from advisor.overrides import Override
+
     fields = {f.name for f in dataclasses.fields(Catalog)}
-    if type(data) is not dict or set(data) != fields or fields != {"families", "files", "problems", "makers"}:
+    if type(data) is not dict or set(data) != fields or fields != {"families", "files", "problems", "makers", "overrides"}:
         raise CacheMismatch("not a cached catalog of this shape")  # a new Catalog field: rebuilt (and a test says so)
     cat = Catalog(files=rebuild(dict[str, str], data["files"]), problems=rebuild(list[Problem], data["problems"]),
-                  makers=rebuild(MakerBook, data["makers"]))
+                  makers=rebuild(MakerBook, data["makers"]), overrides=rebuild(list[Override], data["overrides"]))
     cat.families = _CachedFamilies(rebuild(dict[str, str], data["families"]), cat, lambda: load_dirs(dirs))
     return cat
 
@@ -590,6 +605,7 @@ class _CachedFamilies(dict):
         dict.update(self, fresh.families)
         self._owner.files = fresh.files
         self._owner.problems = fresh.problems
+        self._owner.overrides = fresh.overrides
         return dict.__getitem__(self, key)
 
     def _all(self) -> None:

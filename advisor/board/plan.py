@@ -60,6 +60,7 @@ class BoardPlan:
     plans: list[TimerPlan]
     bom_delta: dict
     unresolved: list[Problem]
+    assumptions: list[str] = field(default_factory=list)  # what the whole plan assumed (advisor.overrides)
 
     def to_json(self) -> dict:
         return {
@@ -73,6 +74,7 @@ class BoardPlan:
             "plan": [p.to_json() for p in self.plans],
             "bom_delta": self.bom_delta,
             "unresolved": [p.to_json() for p in self.unresolved],
+            "assumptions": list(self.assumptions),
         }
 
 

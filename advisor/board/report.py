@@ -63,6 +63,8 @@ def render_markdown(j: dict, catalog=None) -> str:
     out += ["", "## Board findings", ""] + [f"- {_md_escape(x)}" for x in _findings(j) or ["none"]]
     out += ["", "## BOM delta", ""] + [f"- {_md_escape(x)}" for x in _delta_lines(j)]
     out += ["", "## Unresolved", ""] + [f"- {_md_escape(x)}" for x in _unresolved(j) or ["none"]]
+    if j.get("assumptions"):
+        out += ["", "## Assumed", ""] + [f"- {_md_escape(str(x))}" for x in j["assumptions"]]
     out += ["", f"> {CAUTION}", ""]
     for p in j["plan"]:
         if p["swap"] is None:
@@ -102,6 +104,7 @@ def render_html(j: dict, catalog=None) -> str:
             f"<p>{j['sheets']} sheet(s), {len(j['nets'])} nets.</p></header>"
             f"<h2>Timers and one-shots</h2>{table}<h2>Board findings</h2>{ul(_findings(j) or ['none'])}"
             f"<h2>BOM delta</h2>{ul(_delta_lines(j))}<h2>Unresolved</h2>{ul(_unresolved(j) or ['none'])}"
+            + (f"<h2>Assumed</h2>{ul([str(a) for a in j['assumptions']])}" if j.get("assumptions") else "") +
             f"<p class=\"caution\">{e(CAUTION)}</p>" + "".join(sections) + "</main></body></html>")
 
 

@@ -117,6 +117,8 @@ def render_board(j: dict) -> str:
     for u in j["unresolved"]:
         where = f"{u['file']}, sheet {u['sheet']}" + (f", {u['ref']}" if u.get("ref") else "")
         lines.append(f"  {where}: {u['reason']}")
+    for a in j.get("assumptions") or []:
+        lines.append(f"assumed: {a}")
     lines += ["", "Check every change against the makers' current datasheets before power-up; "
                   "polarised capacitors fitted backwards can fail violently."]
     return "\n".join(lines) + "\n"

@@ -92,6 +92,7 @@ class BomResult:
     reviews: list[RowReview]  # one per data row, in order
     new_vcc: float | None = None
     stock: dict | None = None  # the stock list used (advisor.substitute.stock.Stock.to_json)
+    assumptions: list[str] = field(default_factory=list)  # what the whole review assumed (advisor.overrides)
 
     @property
     def summary(self) -> dict[str, int]:
@@ -120,6 +121,7 @@ class BomResult:
             "rows": rows,
             "summary": self.summary,
             "stock": self.stock,
+            "assumptions": list(self.assumptions),
         }
 
     @property

@@ -50,7 +50,9 @@ def compute(args: argparse.Namespace):
     result = alternates(catalog, old.id, circuit, new_vcc=new_vcc_from_args(args), limit=args.limit, series=series,
                         include_obsolete=args.include_obsolete, stock=stock_from_args(args, catalog),
                         keep_within=keep_within_from_args(args))
-    return result
+    from advisor.overrides import note_overrides
+
+    return note_overrides(result, catalog)
 
 
 def run(args: argparse.Namespace) -> int:

@@ -39,7 +39,9 @@ def run(args: argparse.Namespace) -> int:
     supplies = parse_supplies(args.supply)
     new_vcc = new_vcc_from_args(args)
     catalog = catalog_for(args)
-    plan = plan_board(catalog, read_board(args.file), new_vcc=new_vcc, supplies=supplies)
+    from advisor.overrides import note_overrides
+
+    plan = note_overrides(plan_board(catalog, read_board(args.file), new_vcc=new_vcc, supplies=supplies), catalog)
     result = to_plain(plan.to_json())
     if getattr(args, "report", None):
         from advisor.board.report import write_board_report

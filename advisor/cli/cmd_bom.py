@@ -58,7 +58,9 @@ def compute(args: argparse.Namespace):
                          stock=stock)
     finally:
         bar.close()
-    return res
+    from advisor.overrides import note_overrides
+
+    return note_overrides(res, catalog)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -144,5 +146,7 @@ def _print_text(res, output: str | None) -> None:
     if hidden > 0:
         out.write(f"  … {hidden} more timer/one-shot lines (write them all with -o OUT)\n")
     out.write("summary: " + ", ".join(f"{k} {v}" for k, v in res.summary.items()) + "\n")
+    for a in res.assumptions:
+        out.write(f"assumed: {a}\n")
     if output:
         out.write(f"written: {output}\n")

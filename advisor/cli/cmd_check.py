@@ -43,7 +43,9 @@ def compute(args: argparse.Namespace):
     if args.monte_carlo is not None and not 100 <= args.monte_carlo <= 10_000_000:
         raise InputError("--monte-carlo: give between 100 and 10 000 000 samples", got=args.monte_carlo)
     result = check_circuit(family, circuit, new_vcc=new_vcc, samples=args.monte_carlo)
-    return result
+    from advisor.overrides import note_overrides
+
+    return note_overrides(result, catalog)
 
 
 def run(args: argparse.Namespace) -> int:

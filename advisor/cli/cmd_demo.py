@@ -32,6 +32,10 @@ def run(args: argparse.Namespace) -> int:
     scenario = load_scenario(Path(args.scenario) if args.scenario else None)
     catalog = catalog_for(args)
     result = run_demo(catalog, scenario)
+    from advisor.overrides import note_overrides
+
+    for _line, answer in result.swaps + result.alternates:
+        note_overrides(answer, catalog)
     board = None if args.scenario else _board(catalog)
     if args.json:
         emit_json({**result.to_json(), "board": board})
@@ -54,4 +58,6 @@ def _board(catalog) -> dict | None:
     path = data_dir("demo") / DEMO_BOARD
     if not path.exists():
         return None
-    return to_plain(plan_board(catalog, read_board(path), new_vcc=DEMO_BOARD_VCC).to_json())
+    from advisor.overrides import note_overrides
+
+    return to_plain(note_overrides(plan_board(catalog, read_board(path), new_vcc=DEMO_BOARD_VCC), catalog).to_json())

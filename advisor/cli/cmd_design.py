@@ -45,7 +45,9 @@ def compute(args: argparse.Namespace):
     series, c_series = series_from_args(args)
     circuit = with_series(args, circuit_from_args(args, family.id))
     result = design(family, circuit, series=series, c_series=c_series, keep_c=not args.new_c, limit=max(1, args.limit))
-    return result
+    from advisor.overrides import note_overrides
+
+    return note_overrides(result, catalog)
 
 
 def run(args: argparse.Namespace) -> int:

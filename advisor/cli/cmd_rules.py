@@ -99,6 +99,7 @@ def run(args: argparse.Namespace) -> int:
         out.write(f"{'cases':<11} {r['cases']['fire']} that fire, {r['cases']['no_fire']} that do not\n")
         return 0
     topic = None
+    replaced = {o.id: o for o in rs.overrides}
     for rule in rules:
         if rule.topic != topic:
             topic = rule.topic
@@ -106,6 +107,9 @@ def run(args: argparse.Namespace) -> int:
         where = "swap" if rule.rule.applies_to.scope == "swap" else "/".join(rule.rule.applies_to.parts)
         out.write(f"  {rule.severity:<7} {rule.id:<34} [{where}] {rule.rule.title}\n")
         out.write(f"          source: {rule.rule.source}\n")
+        if rule.id in replaced:
+            o = replaced[rule.id]
+            out.write(f"          replaces the shipped {o.shipped_severity} rule in {o.shipped_file}\n")
     counts = rs.to_json()["by_severity"]
     out.write(f"\n{len(rules)} rules ({counts['danger']} danger, {counts['warning']} warning, {counts['note']} note)\n")
     return 0

@@ -49,7 +49,9 @@ def compute(args: argparse.Namespace):
                   new_vcc=new_vcc_from_args(args), series=series, old_package=args.old_package,
                   new_package=args.new_package, keep_within=keep_within_from_args(args),
                   new_maker=getattr(args, "maker", None))
-    return result
+    from advisor.overrides import note_overrides
+
+    return note_overrides(result, catalog)
 
 
 def run(args: argparse.Namespace) -> int:

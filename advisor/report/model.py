@@ -791,6 +791,7 @@ def _alternates(result: dict, catalog: Any) -> Report:
         rep.notes.append(f"Pictures, findings and bench steps below are for the first candidate, {fam}.")
     rep.notes += [f"{i}. {c.get('family')} ({c.get('status') or 'unknown'}): {c['rank_reason']}"
                   for i, c in enumerate(cands, 1) if c.get("rank_reason")]
+    rep.notes += [str(a) for a in result.get("assumptions") or [] if str(a) not in rep.notes]
     rep.lead = f"{len(cands)} candidate{'s' if len(cands) != 1 else ''} for {ofam}" + (
         f"; best: {cands[0].get('family')} ({cands[0].get('class')})." if cands else ".")
     fams = [ofam] + [str(c.get("family")) for c in cands[:1]]
@@ -836,6 +837,7 @@ def _bom(result: dict, catalog: Any) -> Report:
         rep.facts.append(quantity("new supply", result["new_vcc"], "V", "new_vcc"))
     rep.lead = (f"{len(rows)} line{'s' if len(rows) != 1 else ''} reviewed; {len(fams)} timer or one-shot "
                 f"famil{'ies' if len(fams) != 1 else 'y'} recognised; {_count(rep.findings)}.")
+    rep.notes += [str(a) for a in result.get("assumptions") or [] if str(a) not in rep.notes]
     rep.cautions = _cautions(fams, catalog, [])
     rep.sources = sources_of(result, fams, catalog)
     return rep

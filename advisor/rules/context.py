@@ -180,6 +180,9 @@ TOP_VOCABULARY: tuple[Var, ...] = (
     _v("duty_error", "number", "", "new duty - kept duty (astables)"),
     _v("timing_tolerance", "number", "", "the circuit's resistor tolerance the error is judged against"),
     _v("timing_how", "text", "", "kept (old values stay), kept-c (same capacitor, new R) or new-c"),
+    # the rule set itself (advisor.overrides; set by advisor.rules.engine.evaluate, in every scope)
+    _v("danger_rules_replaced", "text", "", "shipped danger rules a user rules folder replaced: "
+       "'id (user file)', comma-separated, if any"),
 )
 
 PART_FIELDS: dict[str, Var] = {v.name: v for v in PART_VOCABULARY}

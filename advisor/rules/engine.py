@@ -105,6 +105,8 @@ class RuleSet:
 
     rules: list[CompiledRule] = field(default_factory=list)
     problems: list = field(default_factory=list)
+    #: Shipped rules a user folder replaced (advisor.overrides.Override; every answer lists them).
+    overrides: list = field(default_factory=list)
 
     def ids(self) -> list[str]:
         return [r.id for r in self.rules]
@@ -126,6 +128,7 @@ class RuleSet:
             "rules": [r.to_json() for r in self.rules],
             "count": len(self.rules),
             "by_severity": {s: sum(r.severity == s for r in self.rules) for s in SEVERITY_ORDER},
+            "overrides": [o.to_json() for o in self.overrides],
         }
 
 
@@ -143,6 +146,13 @@ def _views(context: dict) -> dict[str, dict]:
     return views
 
 
+def danger_rules_replaced(rules: RuleSet) -> str | None:
+    """The fact ``danger_rules_replaced``: shipped danger rules this rule set replaced
+    from a user folder (advisor.overrides), as 'id (user file)', or None."""
+    hits = [f"{o.id} ({o.file})" for o in getattr(rules, "overrides", ()) if o.danger]
+    return ", ".join(hits) or None
+
+
 def evaluate(context: dict, rules: RuleSet | None = None) -> list[Finding]:
     """Every rule that fires on ``context``, most severe first.
 
@@ -153,6 +163,7 @@ def evaluate(context: dict, rules: RuleSet | None = None) -> list[Finding]:
         from advisor.rules.loader import load_rules_checked
 
         rules = load_rules_checked()
+    context = {**context, "danger_rules_replaced": danger_rules_replaced(rules)}
     views = _views(context)
     findings: list[Finding] = []
     for rule in rules.rules:

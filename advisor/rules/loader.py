@@ -141,9 +141,12 @@ def load_file(path: Path, label: str) -> tuple[list[CompiledRule], list[RuleProb
 
 def load_dirs(dirs: list[Path]) -> RuleSet:
     """Load every ``*.yaml`` in ``dirs``; later folders override earlier rules by id."""
+    from advisor.overrides import Override
+
     rs = RuleSet()
     where: dict[str, str] = {}
     index: dict[str, int] = {}
+    shipped: set[str] = set()  # ids whose rule came from the shipped folder (dirs[0])
     for n, d in enumerate(dirs):
         for path in sorted(Path(d).glob("*.yaml")):
             if path.name.startswith("_"):
@@ -153,14 +156,21 @@ def load_dirs(dirs: list[Path]) -> RuleSet:
             rs.problems.extend(problems)
             for rule in rules:
                 if rule.id in index:
-                    same_origin = where[rule.id].startswith("rules/") == label.startswith("rules/")
-                    if same_origin:
+                    # Origin by folder, not by label: a user folder may itself be named "rules".
+                    if (rule.id in shipped) == (n == 0):
                         rs.problems.append(RuleProblem(label, rule.id, "id", f"rule id also defined in {where[rule.id]}"))
                         continue
-                    rs.rules[index[rule.id]] = rule  # a user folder overrides a shipped rule
+                    old = rs.rules[index[rule.id]]
+                    # a user folder replaces a shipped rule: every answer says so (advisor.overrides)
+                    rs.overrides.append(Override("rule", rule.id, label, old.file, old.severity, rule.severity))
+                    rs.rules[index[rule.id]] = rule
                 else:
                     index[rule.id] = len(rs.rules)
                     rs.rules.append(rule)
+                if n == 0:
+                    shipped.add(rule.id)
+                else:
+                    shipped.discard(rule.id)
                 where[rule.id] = label
     return rs
 
@@ -181,6 +191,7 @@ def _to_cache(rs: RuleSet) -> dict:
     return {
         "rules": [{"rule": to_data(r.rule), "file": r.file, "topic": r.topic} for r in rs.rules],
         "problems": [to_data(p) for p in rs.problems],
+        "overrides": [to_data(o) for o in rs.overrides],
     }
 
 
@@ -191,7 +202,9 @@ def _from_cache(data: dict) -> RuleSet:
 
     from advisor.rules.model import Rule
 
-    if type(data) is not dict or set(data) != {"rules", "problems"}:
+    from advisor.overrides import Override
+
+    if type(data) is not dict or set(data) != {"rules", "problems", "overrides"}:
         raise CacheMismatch("not a cached rule set")
     rs = RuleSet()
     for entry in rebuild(list[dict], data["rules"]):
@@ -205,6 +218,7 @@ def _from_cache(data: dict) -> RuleSet:
         except ExprError as exc:
             raise CacheMismatch(str(exc)) from None
     rs.problems = rebuild(list[RuleProblem], data["problems"])
+    rs.overrides = rebuild(list[Override], data["overrides"])
     return rs
 
 

@@ -373,6 +373,8 @@ def _resolve_field(catalog, values: dict[str, object], errors: dict[str, str], k
 
 
 def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Outcome:
+    from advisor.overrides import note_overrides
+
     old_fam = _resolve_field(catalog, values, errors, "old")
     new_query = values.get("new")
     new_fam = _resolve_field(catalog, values, errors, "new") if new_query else None
@@ -404,12 +406,12 @@ def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Out
         result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"),
                       series=str(values.get("series") or "E24"), old_package=values.get("old_package"),
                       new_package=values.get("new_package"), keep_within=values.get("keep_within"))
-        data = result.to_json()
+        data = note_overrides(result, catalog).to_json()
         return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
     from advisor.checking import check_circuit
 
     circuit = build_circuit(old_fam.id, values, measured, catalog)
-    data = check_circuit(old_fam, circuit, new_vcc=values.get("new_vcc")).to_json()
+    data = note_overrides(check_circuit(old_fam, circuit, new_vcc=values.get("new_vcc")), catalog).to_json()
     return Outcome("check", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id)
 
 
@@ -481,11 +483,12 @@ def rank_alternates(catalog, raw: dict[str, str]) -> tuple[dict | None, str | No
         return None, "the form does not read"
     try:
         fam = resolve(catalog, str(values["old"]))
+        from advisor.overrides import note_overrides
         from advisor.substitute.alternates import alternates
 
         res = alternates(catalog, fam.id, build_circuit(fam.id, values, catalog=catalog), new_vcc=values.get("new_vcc"),  # type: ignore[arg-type]
                          series=str(values.get("series") or "E24"))
-        return res.to_json(), None
+        return note_overrides(res, catalog).to_json(), None
     except RetimeError as exc:
         return None, exc.render()
     except Exception as exc:  # an engine bug: one line, never a traceback
