@@ -64,8 +64,14 @@ def _args(command: str, positional: list[str], options: dict) -> argparse.Namesp
 def _answer(command: str, model: str, positional: list, options: dict):
     from advisor import answers
 
+    from advisor.cli.main import as_typed
+    from advisor.errors import RetimeError
+
     args = _args(command, positional, options)
-    result = importlib.import_module(f"advisor.cli.cmd_{command}").compute(args)
+    try:
+        result = importlib.import_module(f"advisor.cli.cmd_{command}").compute(args)
+    except RetimeError as exc:  # named as this command spells its options (design: --width)
+        raise as_typed(exc, args) from None
     return getattr(answers, model).model_validate(result.to_json())
 
 

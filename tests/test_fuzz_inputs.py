@@ -15,10 +15,12 @@ import math
 import tempfile
 from pathlib import Path
 
+import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from advisor.errors import RetimeError
+from advisor.inputnames import FLAG
 from advisor.values import KINDS, read_value
 from support.inprocess import retime
 
@@ -62,6 +64,16 @@ def _subparsers() -> dict[str, argparse.ArgumentParser]:
 
 PARSERS = _subparsers()
 KIND_OF = _option_kinds()
+
+
+def _bom_flags() -> set[str]:
+    from advisor.cli.main import build_parser
+
+    sub = next(a for a in build_parser()._actions if isinstance(a, argparse._SubParsersAction))
+    return {s for a in sub.choices["bom"]._actions for s in a.option_strings}
+
+
+BOM_FLAGS = _bom_flags()
 
 
 def _parts() -> list[str]:
@@ -156,4 +168,26 @@ def test_fuzz_bom_tables_keep_every_row(rows):
     assert run.code != 3, (rows, run.err)
     assert "internal error" not in run.err
     if run.code == 0:
-        assert len(json.loads(run.out)["rows"]) == len(rows)  # every row comes back
+        answer = json.loads(run.out)["rows"]
+        assert len(answer) == len(rows)  # every row comes back
+        # a line's reason names its columns, never a flag the bom command does not have (--r, --c)
+        for row in answer:
+            assert set(FLAG.findall(row["reason"] or "")) <= BOM_FLAGS, row["reason"]
+
+
+# --- regression cases (issue 18): found by hand or by the properties above ----------------------
+
+
+@pytest.mark.parametrize(("argv", "named", "never"), [
+    # design spells its targets --width/--period/--freq: errors and notes say so
+    (["design", "NE555", "--width", "1x"], "--width: cannot read '1x'", "--target"),
+    (["design", "NE555", "--period", "2ms", "--width", "1ms"], "(--width, --period or --freq)", "--target"),
+    (["design", "74HC123", "--freq", "1k"], "give --width", "--target"),
+    # an output that is a device or a folder: refused with its path before anything is written
+    (["bom", str(Path(__file__).parent / "data" / "fail_on_bom.csv"), "-o", "/dev/full"],
+     "argument -o/--output: '/dev/full' is a character device, not a regular file; nothing was written", "Traceback"),
+])
+def test_regression_command_lines(argv, named, never):
+    run = retime(*argv)
+    assert run.code == 2 and run.err.count("\n") == 1, run.err
+    assert named in run.err and never not in run.err, run.err

@@ -182,8 +182,9 @@ def review_bom(
     queries = {_cell(table.rows[i], cols.part) for i in data_idx} - {""}
     matches = recognise_many(catalog, sorted(queries))
     # A line the table could not split into cells (an unclosed quote) keeps its place with its reason.
+    names = _ColumnNames(table, cols)
     read = [_Read(RowReview(i, "unreadable", reason=table.row_problems[i])) if i in table.row_problems
-            else _guarded_read(i, table.rows[i], cols, catalog, matches, new_vcc, vcc) for i in data_idx]
+            else _guarded_read(i, table.rows[i], cols, catalog, matches, new_vcc, vcc, names) for i in data_idx]
     ref_col = _ref_column(table)
     if ref_col is not None:
         for r in read:
@@ -206,19 +207,62 @@ def _ref_column(table: Table) -> int | None:
     return next((i for i, n in enumerate(names) if n in REF_HEADERS), None)
 
 
+class _ColumnNames:
+    """What a BOM user fed in place of each flag the engine's messages name
+    (advisor.inputnames): the column a line's R, RB, C and supply came from."""
+
+    #: engine flag -> the Columns field holding that value (a 555 astable's RA is the R column)
+    FLAGS = {"--r": "r", "--ra": "r", "--rb": "rb", "--c": "c", "--vcc": "vcc"}
+
+    def __init__(self, table: Table, cols: Columns) -> None:
+        self.table = table
+        self.cols = cols
+
+    def column(self, key: str) -> str:
+        idx = getattr(self.cols, key)
+        header = self.table.header
+        name = header[idx].strip() if idx is not None and idx < len(header) else ""
+        return f"column {name!r}" if name else f"column {idx + 1 if idx is not None else '?'}"
+
+    def cell(self, index: int, key: str) -> str:
+        """``line 7, column 'Rt'``: where a cell's value was read."""
+        return f"line {self.table.line_of(index)}, {self.column(key)}"
+
+    #: what names a value the BOM has no column for (bom has no --r, --rb or --c flag)
+    MISSING = {"r": "an R column", "rb": "an RB column", "c": "a C column"}
+
+    def for_row(self, row: list[str]) -> dict[str, str]:
+        """Flag -> where this row's value sits: its column (empty or not), or the column the
+        BOM lacks. An empty or absent supply cell leaves ``--vcc``: the supply then came from
+        the bom command's own --vcc or its default."""
+        out = {}
+        for flag, key in self.FLAGS.items():
+            idx = getattr(self.cols, key)
+            if key == "vcc":
+                if idx is not None and _cell(row, idx):
+                    out[flag] = self.column(key)
+            else:
+                out[flag] = self.column(key) if idx is not None else self.MISSING[key]
+        return out
+
+
 @dataclass
 class _Read:
     """One row after the first pass: a final review, or a job whose answer it waits for."""
 
     review: RowReview
     job: tuple | None = None  # (family, supply, r, rb, c, new_vcc)
+    names: dict = field(default_factory=dict)  # engine flag -> this row's column (advisor.inputnames)
 
     def finish(self, answers: dict) -> RowReview:
+        from advisor.inputnames import rename_flags
+
         if self.job is None:
             return self.review
         base = answers[self.job]
         rev = self.review
-        reason = "; ".join(x for x in (rev.reason, base.reason) if x)  # how the cells were read, then the answer
+        # how the cells were read, then the answer, naming the row's own columns, not flags
+        reason = "; ".join(x for x in (rev.reason, rename_flags(base.reason, self.names)) if x)
         if rev.status == "check-match":
             reason = (f"read as {rev.family} only by a likely typo (score {rev.score:.0f}): confirm the part number"
                       + (f"; {reason}" if reason else ""))
@@ -238,16 +282,16 @@ def _unexpected(exc: Exception) -> str:
     return f"could not be judged: internal problem {type(exc).__name__}: {exc} (please report it)"
 
 
-def _guarded_read(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
+def _guarded_read(i, row, cols, catalog, matches, new_vcc, vcc, names: _ColumnNames) -> _Read:
     try:
-        return _read_row(i, row, cols, catalog, matches, new_vcc, vcc)
+        return _read_row(i, row, cols, catalog, matches, new_vcc, vcc, names)
     except RetimeError as exc:
         return _Read(RowReview(i, "unreadable", reason=exc.message))
     except Exception as exc:  # a bug must cost this line only
         return _Read(RowReview(i, "unreadable", reason=_unexpected(exc)))
 
 
-def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
+def _read_row(i, row, cols, catalog, matches, new_vcc, vcc, names: _ColumnNames) -> _Read:
     if not any(c.strip() for c in row):
         return _Read(RowReview(i, "no-part-number", reason="empty row"))
     if cols.part >= len(row):
@@ -265,10 +309,10 @@ def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
     best = found[0]
     notes: list[str] = []
     try:
-        r = _opt(row, cols.r, "resistance", notes, "R")
-        rb = _opt(row, cols.rb, "resistance", notes, "RB")
-        c = _opt(row, cols.c, "capacitance", notes, "C")
-        row_vcc = _opt(row, cols.vcc, "voltage", notes, "supply")
+        r = _opt(row, cols.r, "resistance", notes, "R", names.cell(i, "r"))
+        rb = _opt(row, cols.rb, "resistance", notes, "RB", names.cell(i, "rb"))
+        c = _opt(row, cols.c, "capacitance", notes, "C", names.cell(i, "c"))
+        row_vcc = _opt(row, cols.vcc, "voltage", notes, "supply", names.cell(i, "vcc"))
     except RetimeError as exc:
         return _Read(RowReview(i, "unreadable", family=best.family, score=best.score, reason=exc.message))
     fam = catalog.get(best.family)
@@ -276,7 +320,7 @@ def _read_row(i, row, cols, catalog, matches, new_vcc, vcc) -> _Read:
     status = "reviewed" if best.how != "fuzzy" else "check-match"
     return _Read(RowReview(i, status, family=best.family, score=round(best.score, 1),
                            suggestion=best.family if status == "check-match" else "", reason="; ".join(notes)),
-                 (best.family, supply, r, rb, c, new_vcc))
+                 (best.family, supply, r, rb, c, new_vcc), names.for_row(row))
 
 
 #: Part numbers of other kinds, by the trade's numbering (common practice): 74/54-series
@@ -300,12 +344,18 @@ def _other_kind(query: str) -> str | None:
     return None
 
 
-def _opt(row: list[str], idx: int | None, kind: str, notes: list[str], label: str) -> float | None:
-    """A cell read as parts print values (advisor.values.read_value); how it was read goes to ``notes``."""
+def _opt(row: list[str], idx: int | None, kind: str, notes: list[str], label: str, where: str) -> float | None:
+    """A cell read as parts print values (advisor.values.read_value); how it was read goes to
+    ``notes``; a value that does not read names its line and column (``where``)."""
+    from advisor.errors import ValueParseError
+
     text = _cell(row, idx)
     if not text:
         return None
-    reading = read_value(text, kind)
+    try:
+        reading = read_value(text, kind)
+    except ValueParseError as exc:
+        raise ValueParseError(f"{where}: {exc.message}", got=text, expected=exc.expected) from None
     notes.extend(reading.remarks(label))
     return reading.value
 

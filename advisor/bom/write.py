@@ -81,7 +81,9 @@ def _same_file(a: Path, b: Path) -> bool:
     return a.resolve() == b.resolve()
 
 
-def write_bom(res: BomResult, out: str | Path) -> Path:
+def write_bom(res: BomResult, out: str | Path, what: str = "-o") -> Path:
+    """Write the reviewed BOM to ``out``; ``what`` names the output in errors (the flag, or
+    the workbench's own words)."""
     path = Path(out)
     ext = path.suffix.lower()
     if ext not in FORMATS:
@@ -96,7 +98,7 @@ def write_bom(res: BomResult, out: str | Path) -> Path:
         data = _markdown(res).encode("utf-8")
     else:
         data = _csv(res)
-    return atomic_write(path, data, what="-o")
+    return atomic_write(path, data, what=what)
 
 
 def _csv(res: BomResult) -> bytes:

@@ -54,7 +54,7 @@ def build_parser() -> argparse.ArgumentParser:
     for mod in _command_modules():
         p = sub.add_parser(mod.NAME, help=mod.HELP, description=getattr(mod, "DESCRIPTION", mod.HELP), parents=[common])
         mod.register(p)
-        p.set_defaults(_run=mod.run)
+        p.set_defaults(_run=mod.run, _parser=p)  # _parser: how this command spells its flags (as_typed)
     return parser
 
 
@@ -72,7 +72,7 @@ def main(argv: list[str] | None = None) -> int:
         sys.stdout.flush()  # a full disk or a closed pipe shows here, not at exit
         return code
     except RetimeError as exc:
-        sys.stderr.write(f"retime: error: {exc.render()}\n")
+        sys.stderr.write(f"retime: error: {as_typed(exc, args).render()}\n")
         return exc.exit_code
     except KeyboardInterrupt:
         sys.stderr.write("retime: interrupted\n")
@@ -93,6 +93,15 @@ def main(argv: list[str] | None = None) -> int:
             "(please report it; set RETIME_DEBUG=1 for details)\n"
         )
         return 3
+
+
+def as_typed(exc: RetimeError, args: argparse.Namespace) -> RetimeError:
+    """The error naming the flags as this command spells them (``design --width``, where
+    the engine says ``--target-width``; advisor.inputnames)."""
+    from advisor.inputnames import parser_names, renamed
+
+    command = getattr(args, "_parser", None)
+    return renamed(exc, parser_names(command)) if command is not None else exc
 
 
 def os_error_message(exc: OSError) -> str:

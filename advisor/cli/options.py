@@ -10,6 +10,7 @@ import argparse
 
 from advisor.circuit import Circuit, Measurement, Target, Trigger
 from advisor.errors import ValueParseError
+from advisor.inputnames import typed_flag
 from advisor.values import parse_range, read_value
 
 _FLAGS: list[tuple[str, str, str]] = [
@@ -87,13 +88,13 @@ def _get(args: argparse.Namespace, flag: str, kind: str, notes: list[str] | None
     raw = getattr(args, flag.lstrip("-").replace("-", "_"), None)
     if raw is None:
         return None
+    zero_ok = True if flag in ("--pot-setting", "--r-tol", "--c-tol", "--pot-tol", "--pot-end") else None
     try:
-        reading = read_value(raw, kind, zero_ok=True if flag in ("--pot-setting", "--r-tol", "--c-tol", "--pot-tol",
-                                                                 "--pot-end") else None)
+        reading = read_value(raw, kind, zero_ok=zero_ok)
     except ValueParseError as exc:
-        raise ValueParseError(f"{flag}: {exc.message}", got=raw, expected=exc.expected) from None
+        raise ValueParseError(f"{typed_flag(args, flag)}: {exc.message}", got=raw, expected=exc.expected) from None
     if notes is not None:
-        notes.extend(reading.remarks(flag))
+        notes.extend(reading.remarks(typed_flag(args, flag)))  # as typed: design's --width, not --target-width
     return reading.value
 
 

@@ -187,7 +187,7 @@ class BomScreen(Screen):
         src = Path(self.result.table.path)
         out = src.with_name(f"{src.stem}-reviewed.csv")
         try:
-            write_bom(self.result, out)
+            write_bom(self.result, out, what="the reviewed BOM")
         except RetimeError as exc:
             self._say(exc.render(), "danger")
             return

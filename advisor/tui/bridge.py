@@ -108,16 +108,20 @@ _FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "r
                "measured-width": "Measured", "measured-high": "Measured", "measured-low": "Measured",
                "measured-period": "Measured", "measured-from": "Capture file", "target-width": "Target",
                "target-period": "Target", "target-freq": "Target", "r-tol": "R tolerance", "c-tol": "C tolerance",
-               "series": "Series", "maker": "Maker"}
-_FLAG = re.compile(r"--([a-z][a-z-]*)")
+               "series": "Series", "maker": "Maker", "cont": "CONT driven", "keep-within": "Keep within",
+               "old-package": "Old package", "new-package": "New package", "measured-quantity": "Measured is",
+               "trigger-channel": "Trigger ch.", "output-channel": "Output ch.", "report": "Report file"}
 
 
 def ui_words(text: str | None) -> str | None:
-    """Engine text speaks of CLI flags (``--c``); on the workbench they are fields ("C")."""
+    """Engine text speaks of CLI flags (``--c``); on the workbench they are fields ("C"),
+    renamed by the one flag renamer (advisor.inputnames)."""
+    from advisor.inputnames import rename_flags
+
     if not text:
         return text
     text = text.replace("--mode mono", "one-shot mode (leave RB blank)")
-    return _FLAG.sub(lambda m: f"'{_FLAG_FIELD[m.group(1)]}'" if m.group(1) in _FLAG_FIELD else m.group(0), text)
+    return rename_flags(text, lambda flag: f"'{_FLAG_FIELD[flag[2:]]}'" if flag[2:] in _FLAG_FIELD else None)
 
 
 def _in_ui_words(data: dict, findings: list[dict]) -> None:
@@ -490,6 +494,6 @@ def rank_alternates(catalog, raw: dict[str, str]) -> tuple[dict | None, str | No
                          series=str(values.get("series") or "E24"))
         return note_overrides(res, catalog).to_json(), None
     except RetimeError as exc:
-        return None, exc.render()
+        return None, ui_words(exc.render())
     except Exception as exc:  # an engine bug: one line, never a traceback
         return None, f"internal error: {type(exc).__name__}: {exc} (please report it)"

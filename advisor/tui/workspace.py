@@ -555,7 +555,9 @@ class WorkspaceScreen(Screen):
         try:
             written = render_report(out.data, path, out.kind, self.app.catalog)
         except RetimeError as exc:
-            note.update(Prose(Text(exc.render(), style=STYLE["danger"])))
+            from advisor.tui.bridge import ui_words
+
+            note.update(Prose(Text(ui_words(exc.render()) or "", style=STYLE["danger"])))
             return
         except OSError as exc:
             note.update(Prose(Text(f"cannot write {path}: {exc.strerror or exc}", style=STYLE["danger"])))
