@@ -18,7 +18,7 @@ from pydantic import BaseModel
 
 from advisor.errors import InputError, UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.files import FileRefused
-from advisor.parts import RESERVED_SOURCES, Family, Lifecycle, Sourced
+from advisor.parts import RESERVED_SOURCES, SHARED_PIN_FUNCTIONS, Family, Lifecycle, Sourced
 from advisor.resources import data_dirs
 from advisor.yamlload import YamlProblem, load_yaml_file
 
@@ -247,6 +247,10 @@ def value_problems(fam: Family, file: str) -> list[Problem]:
 
 #: Functions that belong to one section of a multi-channel part.
 _CHANNEL_FUNCTIONS = {"VCC", "GND", "NC"}
+#: Controls one pin of which may serve every section (``parts.SHARED_PIN_FUNCTIONS``).
+#: One shared pin per function; a forgotten channel on a per-section pin still shows,
+#: as a second shared pin or as sections that differ.
+_SHARED_FUNCTIONS = frozenset(SHARED_PIN_FUNCTIONS)
 
 
 def package_problems(fam: Family, index: int, file: str) -> list[Problem]:
@@ -270,11 +274,21 @@ def package_problems(fam: Family, index: int, file: str) -> list[Problem]:
         if not any(p.function == need for p in pkg.pins):
             problems.append(Problem(file, f"{where}.pins", f"no {need} pin; expected one"))
     per_channel: dict[int, list[str]] = {}
+    shared: dict[str, int] = {}
     for p in pkg.pins:
         if p.function in _CHANNEL_FUNCTIONS:
             continue
         if p.channel is None and fam.channels > 1:
-            problems.append(Problem(file, f"{where}.pins", f"pin {p.pin} ({p.function}) has no channel; expected 1..{fam.channels}"))
+            if p.function in _SHARED_FUNCTIONS and p.function not in shared:
+                shared[p.function] = p.pin  # one control common to every section
+                continue
+            if p.function in shared:
+                msg = (f"pin {p.pin} ({p.function}) has no channel and pin {shared[p.function]} is already the "
+                       f"shared {p.function}; expected a channel 1..{fam.channels}")
+            else:
+                msg = (f"pin {p.pin} ({p.function}) has no channel; expected 1..{fam.channels} "
+                       f"(only {', '.join(sorted(_SHARED_FUNCTIONS))} may be one pin shared by every section)")
+            problems.append(Problem(file, f"{where}.pins", msg))
             continue
         per_channel.setdefault(p.channel or 1, []).append(p.function)
     if fam.channels > 1:

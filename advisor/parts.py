@@ -53,6 +53,11 @@ PinFunction = Literal[
     "RS", "RTC", "CTC", "AUTO_RESET", "MASTER_RESET", "PROG_A", "PROG_B", "MODE", "QSEL",
 ]
 
+#: Controls a multi-section part may bring out once for all its sections: such a pin
+#: leaves its ``channel`` out (the NE558's common RESET and CONTROL VOLTAGE, Philips NE558
+#: product data 2003, Figure 1). ``advisor.catalog`` allows one shared pin per function.
+SHARED_PIN_FUNCTIONS = ("RESET", "CLEAR", "CONT")
+
 RESERVED_SOURCES = ("memory", "common-practice")
 
 

@@ -27,7 +27,7 @@ from __future__ import annotations
 import re
 from dataclasses import asdict, dataclass, field
 
-from advisor.parts import Family, Package, TriggerInput
+from advisor.parts import SHARED_PIN_FUNCTIONS, Family, Package, TriggerInput
 
 #: Function groups. "network" pins carry the timing R/C (or the 555's divider taps).
 POWER = ("VCC", "GND")
@@ -35,6 +35,8 @@ TRIGGERS = ("TRIG_FALL", "TRIG_RISE", "TRIG")
 CLEARS = ("CLEAR", "RESET", "MASTER_RESET", "AUTO_RESET")
 OUTPUTS = ("Q", "QN", "OUT", "OSC_OUT")
 NETWORK = ("CEXT", "RCEXT", "RINT", "REXT", "THRES", "DIS", "CONT", "RC_COMMON", "RS", "RTC", "CTC")
+#: Controls a multi-section part may bring out once for all its sections (channel left out).
+SHARED_CONTROLS = SHARED_PIN_FUNCTIONS
 
 #: Functions that do the same job under another name on another kind of part.
 #: Used only when the exact function is absent; each such link carries a note.
@@ -425,7 +427,11 @@ def map_pins(
     new_used: set[int] = set()
 
     def new_pins(function: str, channel: int | None) -> list:
-        return [p for p in np_.pins if p.function == function and p.channel == channel and p.pin not in new_used]
+        found = [p for p in np_.pins if p.function == function and p.channel == channel and p.pin not in new_used]
+        if not found and channel is not None and function in SHARED_CONTROLS:
+            # one control pin common to every section (the NE558's RESET and CONTROL VOLTAGE)
+            found = [p for p in np_.pins if p.function == function and p.channel is None and p.pin not in new_used]
+        return found
 
     def link(old_pin, new_pin, note=None) -> None:
         new_used.add(new_pin.pin)
@@ -580,6 +586,9 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
                     note = f"{p.function} on {old.id} becomes {rel} on {new.id}: same job, check the datasheet"
                     break
         if cand:
+            if cand[0].channel is None and new.channels > 1:
+                shared = f"{new.id} {cand[0].name} is common to all {new.channels} sections"
+                note = f"{note}; {shared}" if note else shared
             link(p, cand[0], note)
             continue
         blocking = k == "clear"
