@@ -51,6 +51,9 @@ PinFunction = Literal[
     "ASTABLE", "ASTABLE_N", "RETRIGGER", "OSC_OUT", "RC_COMMON",
     # 4541 extras
     "RS", "RTC", "CTC", "AUTO_RESET", "MASTER_RESET", "PROG_A", "PROG_B", "MODE", "QSEL",
+    # precision timers with a floating output transistor (National LM3905, February 1995 sheet):
+    # the transistor's collector and emitter, the output-polarity (logic) input, the reference output
+    "OUT_C", "OUT_E", "LOGIC", "VREF",
 ]
 
 #: Controls a multi-section part may bring out once for all its sections: such a pin

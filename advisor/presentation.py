@@ -52,6 +52,8 @@ FUNCTION_WORDS: dict[str, str] = {
     "RS": "oscillator resistor pin", "RTC": "timing-resistor pin", "CTC": "timing-capacitor pin",
     "AUTO_RESET": "power-on reset enable", "MASTER_RESET": "master reset input",
     "PROG_A": "divider select A", "PROG_B": "divider select B", "MODE": "mode select", "QSEL": "output phase select",
+    "OUT_C": "output transistor collector", "OUT_E": "output transistor emitter",
+    "LOGIC": "output polarity select", "VREF": "reference output",
 }
 
 

@@ -33,8 +33,9 @@ from advisor.parts import SHARED_PIN_FUNCTIONS, Family, Package, TriggerInput
 POWER = ("VCC", "GND")
 TRIGGERS = ("TRIG_FALL", "TRIG_RISE", "TRIG")
 CLEARS = ("CLEAR", "RESET", "MASTER_RESET", "AUTO_RESET")
-OUTPUTS = ("Q", "QN", "OUT", "OSC_OUT")
-NETWORK = ("CEXT", "RCEXT", "RINT", "REXT", "THRES", "DIS", "CONT", "RC_COMMON", "RS", "RTC", "CTC")
+OUTPUTS = ("Q", "QN", "OUT", "OSC_OUT", "OUT_C", "OUT_E")
+#: VREF: the LM3905 timing resistor runs from its reference output, not from VCC.
+NETWORK = ("CEXT", "RCEXT", "RINT", "REXT", "THRES", "DIS", "CONT", "RC_COMMON", "RS", "RTC", "CTC", "VREF")
 #: Controls a multi-section part may bring out once for all its sections (channel left out).
 SHARED_CONTROLS = SHARED_PIN_FUNCTIONS
 
