@@ -25,11 +25,19 @@ from advisor.errors import RetimeError
 ORDER = ["demo", "find", "show", "catalog", "check", "design", "swap", "alternates", "bom", "measure", "rules", "ui"]
 
 
-def _command_modules() -> list:
+def command_names() -> list[str]:
+    """Every command's name, in ``retime --help`` order (from the module names: nothing imported)."""
     import advisor.cli as pkg
 
     names = [m.name[4:] for m in pkgutil.iter_modules(pkg.__path__) if m.name.startswith("cmd_")]
     names.sort(key=lambda n: (ORDER.index(n) if n in ORDER else len(ORDER), n))
+    return names
+
+
+def _command_modules(only: str | None = None) -> list:
+    names = command_names()
+    if only is not None and only in names:
+        names = [only]
     return [importlib.import_module(f"advisor.cli.cmd_{n}") for n in names]
 
 
@@ -39,7 +47,10 @@ class _Parser(argparse.ArgumentParser):
         raise SystemExit(2)
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser(only: str | None = None) -> argparse.ArgumentParser:
+    """The command line's parser; with ``only`` (a command name) just that command's
+    sub-parser is built, so a run imports and registers only the command it runs (the
+    sub-parser, its usage and its errors are the same as in the full parser)."""
     common = argparse.ArgumentParser(add_help=False)
     common.add_argument("--json", action="store_true", help="print one JSON object (SI units) on stdout")
     common.add_argument("--catalog", action="append", default=[], metavar="DIR",
@@ -51,7 +62,7 @@ def build_parser() -> argparse.ArgumentParser:
     )
     parser.add_argument("--version", action="version", version=f"retime {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    for mod in _command_modules():
+    for mod in _command_modules(only):
         p = sub.add_parser(mod.NAME, help=mod.HELP, description=getattr(mod, "DESCRIPTION", mod.HELP), parents=[common])
         mod.register(p)
         p.set_defaults(_run=mod.run, _parser=p)  # _parser: how this command spells its flags (as_typed)
@@ -62,7 +73,10 @@ def main(argv: list[str] | None = None) -> int:
     from advisor.cli.terminal import guard_streams
 
     guard_streams()
-    parser = build_parser()
+    words = sys.argv[1:] if argv is None else argv
+    # The first word names the command (retime has no options before it but --help and
+    # --version, which need the full parser).
+    parser = build_parser(words[0] if words and words[0] in command_names() else None)
     args = parser.parse_args(argv)
     if not getattr(args, "command", None):
         parser.print_help()
