@@ -383,7 +383,9 @@ def _model_converter(cls: type) -> Callable[[object], object]:
                     raise CacheMismatch(f"{cls.__name__}: {name} missing")
                 factory = info.default_factory
                 if factory is not None:
-                    values[name] = factory()
+                    # A model class as its own default is rebuilt here too: calling it
+                    # would build its validation schema.
+                    values[name] = _converter(factory)({}) if _is_model(factory) else factory()
                 else:  # info.get_default would import pydantic's deep-copy helpers on every call
                     d = info.default
                     values[name] = d.copy() if isinstance(d, (list, dict, set)) else d
@@ -396,6 +398,10 @@ def _model_converter(cls: type) -> Callable[[object], object]:
         setattr_(obj, "__pydantic_private__", None)
         return obj
     return model
+
+
+def _is_model(tp: object) -> bool:
+    return isinstance(tp, type) and hasattr(tp, "model_fields") and hasattr(tp, "model_construct")
 
 
 def _dataclass_converter(cls: type) -> Callable[[object], object]:
