@@ -12,14 +12,10 @@
 
 from __future__ import annotations
 
-import yaml
-from yaml.constructor import ConstructorError
-from yaml.nodes import MappingNode, SequenceNode
+from functools import lru_cache
 
-try:  # the C parser is ~10x faster; the constructor stays PyYAML's safe one either way
-    _Base = yaml.CSafeLoader
-except AttributeError:  # pragma: no cover
-    _Base = yaml.SafeLoader
+# PyYAML is imported when a document is read, not with this module: a run answered from
+# the start-up cache (advisor.cache) reads no YAML and does not pay for the import.
 
 #: Most nodes a catalog or rules document may stand for with aliases expanded. The
 #: largest shipped file has about 1 500; this leaves room for big user files.
@@ -39,29 +35,49 @@ class YamlProblem(ValueError):
         return f"line {self.line}" if self.line else ""
 
 
-class StrictLoader(_Base):
-    """Safe loader that refuses duplicate keys."""
+@lru_cache(maxsize=1)
+def strict_loader() -> type:
+    """The safe loader class that refuses duplicate keys (built on first use)."""
+    import yaml
+    from yaml.constructor import ConstructorError
+    from yaml.nodes import MappingNode
 
-    def construct_mapping(self, node, deep=False):
-        if isinstance(node, MappingNode):
-            seen: dict[object, int] = {}
-            for key_node, _value in node.value:
-                if key_node.tag == "tag:yaml.org,2002:merge":
-                    continue
-                key = self.construct_object(key_node, deep=True)
-                try:
-                    first = seen.get(key)
-                except TypeError:
-                    continue  # unhashable key: the base constructor reports it
-                line = key_node.start_mark.line + 1
-                if first is not None:
-                    raise ConstructorError(
-                        None, None,
-                        f"key {_short(key)} appears twice in one mapping (lines {first} and {line}); "
-                        "keep one", key_node.start_mark,
-                    )
-                seen[key] = line
-        return super().construct_mapping(node, deep=deep)
+    try:  # the C parser is ~10x faster; the constructor stays PyYAML's safe one either way
+        base = yaml.CSafeLoader
+    except AttributeError:  # pragma: no cover
+        base = yaml.SafeLoader
+
+    class StrictLoader(base):
+        """Safe loader that refuses duplicate keys."""
+
+        def construct_mapping(self, node, deep=False):
+            if isinstance(node, MappingNode):
+                seen: dict[object, int] = {}
+                for key_node, _value in node.value:
+                    if key_node.tag == "tag:yaml.org,2002:merge":
+                        continue
+                    key = self.construct_object(key_node, deep=True)
+                    try:
+                        first = seen.get(key)
+                    except TypeError:
+                        continue  # unhashable key: the base constructor reports it
+                    line = key_node.start_mark.line + 1
+                    if first is not None:
+                        raise ConstructorError(
+                            None, None,
+                            f"key {_short(key)} appears twice in one mapping (lines {first} and {line}); "
+                            "keep one", key_node.start_mark,
+                        )
+                    seen[key] = line
+            return super().construct_mapping(node, deep=deep)
+
+    return StrictLoader
+
+
+def __getattr__(name: str):  # ``advisor.yamlload.StrictLoader`` as before, built on first use
+    if name == "StrictLoader":
+        return strict_loader()
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
 def _short(value: object) -> str:
@@ -71,6 +87,8 @@ def _short(value: object) -> str:
 
 def expanded_size(root, limit: int = MAX_NODES) -> int:
     """Node count of the document with every alias expanded (refuses cycles and ``limit``)."""
+    from yaml.nodes import MappingNode, SequenceNode
+
     sizes: dict[int, int] = {}
     active: set[int] = set()
 
@@ -106,7 +124,9 @@ def expanded_size(root, limit: int = MAX_NODES) -> int:
 
 def parse_yaml(text: str) -> object:
     """The document in ``text`` as plain data; raises :class:`YamlProblem`."""
-    loader = StrictLoader(text)
+    import yaml
+
+    loader = strict_loader()(text)
     try:
         node = loader.get_single_node()
         if node is None:
