@@ -18,15 +18,21 @@ from pathlib import Path
 from advisor.errors import key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.files import FileRefused
 from advisor.resources import data_dirs
-from advisor.board.facts import board_vocabulary
 from advisor.rules.context import Var, vocabulary
 from advisor.rules.engine import CompiledRule, RuleSet
 from advisor.rules.safe_expr import ExprError, compile_expr
 from advisor.rules.template import _any_name, compile_template
 from advisor.yamlload import YamlProblem, load_yaml_file
 
-_VOCAB: dict[str, dict[str, Var]] = {s: vocabulary(s) for s in ("part", "swap")}
-_VOCAB["board"] = board_vocabulary(_VOCAB["part"])
+
+@lru_cache(maxsize=None)
+def _vocab(scope: str) -> dict[str, Var]:
+    """The names a rule of ``scope`` may read (built when YAML is compiled, not on a cache hit)."""
+    if scope == "board":
+        from advisor.board.facts import board_vocabulary
+
+        return board_vocabulary(_vocab("part"))
+    return vocabulary(scope)
 
 
 @dataclass(frozen=True)
@@ -84,7 +90,7 @@ def compile_rule(data: object, file: str, topic: str, index: int) -> tuple[Compi
                 msg = f"{msg}, got {_short(err['input'])}"
             probs.append(RuleProblem(file, label, _loc(err["loc"]), msg))
         return None, probs
-    vocab = _VOCAB[rule.applies_to.scope]
+    vocab = _vocab(rule.applies_to.scope)
     known = vocab.__contains__
     problems: list[RuleProblem] = []
     compiled = {}
@@ -181,7 +187,7 @@ def load_rules(extra_dirs: tuple[str, ...] = ()) -> RuleSet:
     from advisor.cache import cached
 
     dirs = data_dirs("rules", tuple(extra_dirs))
-    return cached("rules", dirs, lambda: load_dirs(dirs), _to_cache, _from_cache)
+    return cached("rules", dirs, lambda: load_dirs(dirs), _to_cache, lambda data: _from_cache(data, dirs))
 
 
 def _to_cache(rs: RuleSet) -> dict:
@@ -195,9 +201,10 @@ def _to_cache(rs: RuleSet) -> dict:
     }
 
 
-def _from_cache(data: dict) -> RuleSet:
-    """The rule set from cached data (type-checked while rebuilt); conditions and
-    templates are compiled again from their checked text (evaluators are closures)."""
+def _from_cache(data: dict, dirs: list[Path] | None = None) -> RuleSet:
+    """The rule set from cached data (type-checked while rebuilt). Conditions and
+    templates are compiled again from their checked text when a run first uses them
+    (:class:`_Deferred`): most rules never fire, and many never apply, in one run."""
     from advisor.cache import CacheMismatch, rebuild
 
     from advisor.rules.model import Rule
@@ -206,20 +213,64 @@ def _from_cache(data: dict) -> RuleSet:
 
     if type(data) is not dict or set(data) != {"rules", "problems", "overrides"}:
         raise CacheMismatch("not a cached rule set")
+    where = tuple(str(d) for d in (data_dirs("rules") if dirs is None else dirs))
     rs = RuleSet()
     for entry in rebuild(list[dict], data["rules"]):
         rule = rebuild(Rule, entry.get("rule"))
         file, topic = rebuild(str, entry.get("file")), rebuild(str, entry.get("topic"))
-        try:
-            rs.rules.append(CompiledRule(rule, file, topic, compile_expr(rule.condition),
-                                         compile_template(rule.message, _any_name),
-                                         compile_template(rule.fix, _any_name),
-                                         compile_template(rule.rework.step, _any_name) if rule.rework is not None else None))
-        except ExprError as exc:
-            raise CacheMismatch(str(exc)) from None
+        rs.rules.append(CompiledRule(
+            rule, file, topic, _Deferred(rule.condition, _checked_expr, where, rule.id, "condition"),
+            _Deferred(rule.message, _checked_template, where, rule.id, "message"),
+            _Deferred(rule.fix, _checked_template, where, rule.id, "fix"),
+            _Deferred(rule.rework.step, _checked_template, where, rule.id, "rework") if rule.rework is not None else None))
     rs.problems = rebuild(list[RuleProblem], data["problems"])
     rs.overrides = rebuild(list[Override], data["overrides"])
     return rs
+
+
+def _checked_expr(text: str):
+    return compile_expr(text, _any_name)
+
+
+def _checked_template(text: str):
+    return compile_template(text, _any_name)
+
+
+class _Deferred:
+    """A cached rule's condition or template, compiled from its text on first use.
+
+    The text was checked against the vocabulary when the cache was written (the cache
+    key covers the compiler's and the vocabulary's source), so only a damaged cache file
+    fails to compile here; the rule set is then read again from the YAML (and the cache
+    file dropped), so a damaged file never changes an answer. Attributes (``truth``,
+    ``value``, ``render``, ``names``, ``text``, ...) are those of the compiled object.
+    """
+
+    __slots__ = ("_source", "_make", "_dirs", "_rule", "_name", "_done")
+
+    def __init__(self, source: str, make, dirs: tuple[str, ...], rule: str, name: str) -> None:
+        self._source, self._make, self._dirs, self._rule, self._name = source, make, dirs, rule, name
+        self._done = None
+
+    def _compiled(self):
+        if self._done is None:
+            try:
+                self._done = self._make(self._source)
+            except ExprError:
+                self._done = getattr(_reread(self._dirs).get(self._rule), self._name)
+        return self._done
+
+    def __getattr__(self, name: str):
+        return getattr(self._compiled(), name)
+
+
+@lru_cache(maxsize=2)
+def _reread(dirs: tuple[str, ...]) -> RuleSet:
+    """The rule set read from the YAML again, after a damaged cache file (dropped)."""
+    from advisor.cache import drop
+
+    drop("rules")
+    return load_dirs([Path(d) for d in dirs])
 
 
 def require_clean(rs: RuleSet) -> RuleSet:
