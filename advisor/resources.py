@@ -1,20 +1,28 @@
-"""Where shipped data lives: ``advisor/data/{catalog,rules,demo}`` via importlib.resources.
+"""Where shipped data lives: ``advisor/data/{catalog,rules,demo}`` beside the package.
 
 In the repository those are symlinks to the top-level ``catalog/`` and ``rules/``
 folders, so editable and normal installs read the same files through one code path.
+The folder is found from the package's own location (what importlib.resources gives
+for an installed package folder, without importing it and the archive modules behind it
+on every start-up); importlib.resources is asked only when that folder is not there.
 """
 
 from __future__ import annotations
 
 import os
-from importlib import resources
 from pathlib import Path
+
+_PACKAGE = Path(__file__).parent  # not resolved: the same path importlib.resources gives
 
 
 def data_dir(name: str) -> Path:
     """Path of a shipped data folder (``catalog``, ``rules`` or ``demo``)."""
-    root = resources.files("advisor") / "data" / name
-    return Path(str(root))
+    here = _PACKAGE / "data" / name
+    if here.is_dir():
+        return here
+    from importlib import resources
+
+    return Path(str(resources.files("advisor") / "data" / name))
 
 
 def user_dirs(name: str) -> list[Path]:
