@@ -57,7 +57,6 @@ def compute(args: argparse.Namespace):
 def run(args: argparse.Namespace) -> int:
     from advisor.cli.options import fail_on_status
     from advisor.cli.output import emit_json
-    from advisor.substitute.text import render_swap
 
     result = compute(args)
     from advisor.cli.options import write_report_if_asked
@@ -66,6 +65,8 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         emit_json(result.to_json())
     else:
+        from advisor.substitute.text import render_swap
+
         j = result.to_json()
         text = render_swap(j)
         if not args.no_picture:
