@@ -99,6 +99,12 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
     for need in REQUIRED_CONSTANTS[fam.timing.law]:
         if not fam.timing.constants.get(need):
             problems.append(Problem(file, f"timing.constants.{need}", f"law {fam.timing.law!r} needs constant {need!r}"))
+    if fam.timing.law == "counter" and fam.timing.counter is None:
+        problems.append(Problem(file, "timing.counter", "law 'counter' needs a counter block (divide_by: the "
+                                "divide ratios the sheet publishes, source); see catalog/README.md"))
+    if fam.timing.law != "counter" and fam.timing.counter is not None:
+        problems.append(Problem(file, "timing.counter", f"a counter block belongs to law 'counter', not "
+                                f"{fam.timing.law!r}"))
     if not any(max(e.bounds()) > 0 for e in fam.timing.spread):
         problems.append(Problem(file, "timing.spread", "no part-to-part spread recorded (a zero spread makes the "
                                 "band shrink to the R and C tolerances); expected a guaranteed limit from the sheet, "

@@ -90,6 +90,9 @@ class Circuit:
     pot_end: float | None = None  # Ω left in circuit at each stop of the trimmer (default: its class)
     r_series: str | None = None  # E-series the user chose for resistors: its tolerance when --r-tol is absent
     c_series: str | None = None  # E-series the user chose for capacitors: likewise for --c-tol
+    #: Counter-based timers (law ``counter``): the divide ratio N on the output used, one of the
+    #: family's ``timing.counter.divide_by`` (checked against it in advisor.timing.model.build).
+    divide: int | None = None
     #: Makers the part number (or ``--maker``) names, as ids of catalog/makers.yaml; empty
     #: when it names none. ``maker_basis`` says how: "part-number prefix" or "--maker".
     makers: tuple[str, ...] = ()
@@ -112,6 +115,10 @@ class Circuit:
         if self.pot_end is not None and self.pot is not None and not 0 <= self.pot_end < self.pot / 2:
             raise InputError(f"trimmer end resistance {self.pot_end:g} Ω must lie between 0 and half the trimmer's "
                              f"{self.pot:g} Ω", got=self.pot_end)
+        if self.divide is not None and (isinstance(self.divide, bool) or not isinstance(self.divide, int)
+                                        or self.divide < 1):
+            raise InputError(f"divide ratio {self.divide!r} is not a whole count of 1 or more", got=self.divide,
+                             expected="a divide ratio the part can select, such as 1024")
         for name in ("r_tol", "c_tol", "pot_tol"):
             v = getattr(self, name)
             if v is not None and not 0.0 <= v < 1.0:

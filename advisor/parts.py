@@ -29,7 +29,7 @@ SourceKind = Literal[
 Retrigger = Literal["yes", "no", "selectable"]
 Edge = Literal["rising", "falling", "level-low", "level-high"]
 Level = Literal["low", "high"]
-Law = Literal["timer-555", "krc", "ln-supply", "cd4047", "cd4541"]
+Law = Literal["timer-555", "krc", "ln-supply", "cd4047", "cd4541", "counter"]
 #: Product lifecycle, as makers state it: in production; not recommended for new
 #: designs; last-time-buy announced; no longer made. ``unknown`` when no statement is recorded.
 Status = Literal["active", "nrnd", "last-time-buy", "obsolete", "unknown"]
@@ -54,6 +54,8 @@ PinFunction = Literal[
     # precision timers with a floating output transistor (National LM3905, February 1995 sheet):
     # the transistor's collector and emitter, the output-polarity (logic) input, the reference output
     "OUT_C", "OUT_E", "LOGIC", "VREF",
+    # counter timers (law ``counter``): an output of one counter stage, its divide ratio in the pin's note
+    "Q_TAP",
 ]
 
 #: Controls a multi-section part may bring out once for all its sections: such a pin
@@ -212,6 +214,32 @@ class Supply(_Frozen):
     absolute_max: Sourced
 
 
+class Counter(_Frozen):
+    """The counter of a counter-based timer (law ``counter``), as its datasheet publishes it.
+
+    ``divide_by``: every divide ratio N the part can put on an output (a binary tap 2^n, or
+    a programmed count), ascending. ``delay_fraction``: the single timed interval (mono
+    mode: from the reset's release to the output's first change) lasts ``delay_fraction``
+    × N oscillator periods: 0.5 for a binary stage (stage n's output first rises after
+    2^(n-1) counts: Philips HEF4541B, January 1995, function table note 2), 1 for a programmed
+    count. ``source`` names the sheet's table (an entry of the file's ``sources``).
+    """
+
+    divide_by: list[int] = Field(min_length=1)
+    delay_fraction: float = Field(default=0.5, gt=0.0, le=1.0)
+    source: str
+    note: str | None = None
+
+    @field_validator("divide_by")
+    @classmethod
+    def _ascending(cls, v: list[int]) -> list[int]:
+        if any(n < 1 for n in v):
+            raise ValueError(f"divide ratios are whole counts of 1 or more, got {v}")
+        if any(b <= a for a, b in zip(v, v[1:])):
+            raise ValueError(f"list each divide ratio once, ascending, got {v}")
+        return v
+
+
 class Timing(_Frozen):
     """The timing law and its published constants.
 
@@ -224,7 +252,11 @@ class Timing(_Frozen):
       (f = k/((RA+2RB)·C), nominally 1.44), ``r_discharge`` (Ω, discharge on-resistance).
     - ``ln-supply``: ``a`` (t = a·R·C·ln(VDD − VSS), the 4528 law).
     - ``cd4047``: ``k_mono`` (t = k·R·C), ``k_astable`` (period at Q = k·R·C).
-    - ``cd4541``: ``k_osc`` (oscillator period = k·Rt·Ct).
+    - ``cd4541``: ``k_osc`` (oscillator period = k·Rt·Ct; the oscillator alone, kept for
+      local catalogs written before the counter law).
+    - ``counter``: ``k_osc`` (oscillator period T = k·Rt·Ct) and a ``counter`` block: the
+      output is the oscillator divided by a ratio N chosen from the family's published
+      ``counter.divide_by`` (``advisor.timing.laws.counter_period``).
     """
 
     law: Law
@@ -238,6 +270,8 @@ class Timing(_Frozen):
     spread: list[Spread] = Field(default_factory=list)
     #: Published min/typ/max width tables (rows), honoured by the law.
     widths: list[WidthRow] = Field(default_factory=list)
+    #: Counter-based timers (law ``counter``): the divide ratios the part can select.
+    counter: Counter | None = None
     note: str | None = None
 
     @field_validator("spread", mode="before")

@@ -123,6 +123,22 @@ def network_text(values: dict, mode: str) -> str:
     return ",  ".join(parts)
 
 
+def counter_text(counter: dict, mode: str) -> str:
+    """A counter timer's divide ratio and oscillator (facts.counter, advisor.timing.validity)."""
+    from advisor.values import format_eng
+
+    osc = counter.get("oscillator") or {}
+    f = osc.get("frequency")
+    where = f"oscillator {format_eng(f, 'Hz')}" if f else "oscillator"
+    n = counter.get("divide")
+    if n is None:
+        choices = ", ".join(str(x) for x in counter.get("divide_by") or [])
+        return f"{where}; no --divide given, so the times below are the oscillator's (outputs: ÷{choices})"
+    if mode == "mono":
+        return f"{where} ÷{n}; the output first changes {counter.get('delay_fraction', 0.5):g} × {n} periods after reset"
+    return f"{where} ÷{n}"
+
+
 def tolerance_text(tol: dict) -> str:
     d = tol.get("defaulted", {})
     r = f"R ±{_pct(tol['r_tol'])}" + (" (assumed)" if d.get("r_tol") else "")
@@ -165,6 +181,9 @@ def render_text(j: dict) -> str:
     ]
     if j.get("maker_basis"):
         rows.append(("maker", maker_text(j)))
+    counter = (j.get("facts") or {}).get("counter")
+    if counter:
+        rows.append(("counter", counter_text(counter, mode)))
     rows += timing_lines(j["timing"], mode)
     cal = j.get("calibration")
     if cal:

@@ -74,6 +74,8 @@ def _network(values: dict) -> str:
         where = f" in {values['pot_in'].upper()}" if values.get("pot_in") else ""
         parts.append(f"+ trimmer {format_code(values['pot'])}{where}")
     parts.append(f"C {format_code(values['c'], 'capacitance')}")
+    if values.get("divide") is not None:  # a counter timer: the output's divide ratio
+        parts.append(f"÷{values['divide']}")
     return "  ".join(parts)
 
 

@@ -51,6 +51,9 @@ def add_circuit_options(p: argparse.ArgumentParser, *, targets: bool = True) -> 
     g.add_argument("--pot-in", choices=["ra", "rb"],
                    help="555 astable: the trimmer sits with RA (default: moves the period, keeps the low time) or RB")
     g.add_argument("--trigger-edge", choices=["rising", "falling"], help="active edge of the trigger signal")
+    g.add_argument("--divide", metavar="N",
+                   help="counter-based timers (CD4541B, 74HC4060, ...): the divide ratio N of the counter output "
+                        "used, one the part can select (retime show PART lists them); default: the oscillator itself")
     g.add_argument("--maker", metavar="NAME",
                    help="use this maker's published constant (a maker of catalog/makers.yaml, e.g. NXP, TI, "
                         "Fairchild); default: the maker the part number names, else the band spans the makers")
@@ -96,6 +99,28 @@ def _get(args: argparse.Namespace, flag: str, kind: str, notes: list[str] | None
     if notes is not None:
         notes.extend(reading.remarks(typed_flag(args, flag)))  # as typed: design's --width, not --target-width
     return reading.value
+
+
+def count_from_args(args: argparse.Namespace, flag: str = "--divide") -> int | None:
+    """A whole count given as text (``--divide 1024``, ``--divide 2^10``): one located error
+    when it is not a whole number of 1 or more (the family's own set is checked by the engine,
+    advisor.timing.model.check_divide)."""
+    raw = getattr(args, flag.lstrip("-").replace("-", "_"), None)
+    if raw is None:
+        return None
+    text = str(raw).strip().replace(" ", "")
+    try:
+        if "^" in text or "**" in text:  # 2^10: how the sheets print a binary tap
+            base, exp = text.replace("**", "^").split("^", 1)
+            value = int(base) ** int(exp) if 0 <= int(exp) <= 64 else 0
+        else:
+            value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise ValueParseError(f"{flag}: cannot read {raw!r} as a divide ratio", got=raw,
+                              expected="a whole count of 1 or more, such as 1024 or 2^10")
+    return value
 
 
 def quantity_from_args(args: argparse.Namespace, flag: str, kind: str) -> float | None:
@@ -156,6 +181,7 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         measured=measured,
         target=target,
         cont=v.get("--cont"),
+        divide=count_from_args(args) if hasattr(args, "divide") else None,
         **_makers_from_args(args),
         notes=tuple(notes),
     )

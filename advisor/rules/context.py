@@ -110,6 +110,11 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("low", "number", "s", "nominal astable low time"),
     _v("duty", "number", "", "nominal astable duty (high fraction)"),
     _v("calibration_factor", "number", "", "measured / predicted, when a measurement was given"),
+    # counter timers (law counter; the cd4541 law is the oscillator alone)
+    _v("divide", "number", "", "divide ratio N on the counter output in use (--divide); unknown when none is given"),
+    _v("divide_choices", "text", "", "the divide ratios the counter can select (catalog timing.counter.divide_by)"),
+    _v("osc_frequency", "number", "Hz", "nominal frequency of a counter timer's RC oscillator (N × the output's)"),
+    _v("osc_frequency_max", "number", "Hz", "worst-case highest oscillator frequency over the band"),
     # trigger
     _v("trigger_period", "number", "s", "period of the trigger signal"),
     _v("trigger_edge", "text", "", "active edge of the trigger signal: rising or falling"),
@@ -249,6 +254,28 @@ def _extreme(t: dict, key: str, fn) -> float | None:
     return fn(vals) if vals else None
 
 
+def _oscillator(family: Family, mode: str, used: dict, t: dict) -> tuple[float | None, float | None, float | None]:
+    """A counter timer's divide ratio and its oscillator's nominal and highest frequency (Hz).
+
+    The output period is N × T (astable) and the single interval fraction × N × T (mono),
+    so T follows from the engine's times (advisor.timing.laws.counter_period); the law
+    ``cd4541`` is the oscillator alone (N = 1)."""
+    law = family.timing.law
+    if law not in ("counter", "cd4541"):
+        return None, None, None
+    divide = _num(used, "divide") if law == "counter" else None
+    n = divide or 1.0
+    if mode == "mono":
+        frac = family.timing.counter.delay_fraction if family.timing.counter is not None else 0.5
+        widths = [x for x in (_num(t.get(b), "width") for b in ("nominal", "min")) if x]
+        osc = [frac * n / w for w in widths]
+    else:
+        osc = [n * f for f in (_num(t.get(b), "frequency") for b in ("nominal", "min", "max")) if f]
+    if not osc:
+        return divide, None, None
+    return divide, osc[0], max(osc)
+
+
 def part_values(family: Family, circuit: Circuit | None, timing: dict | None = None) -> dict[str, object]:
     """The :data:`PART_VOCABULARY` fields for one part in one circuit (plain values)."""
     if timing is not None and not isinstance(timing, dict) and hasattr(timing, "to_json"):
@@ -358,6 +385,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
     d_range = trig.get("divide_by_range") if isinstance(trig.get("divide_by_range"), list) else None
     stays = trig.get("stays_high") if isinstance(trig.get("stays_high"), bool) else None
     calib = timing.get("calibration") if isinstance(timing.get("calibration"), dict) else None
+    divide, osc_f, osc_f_max = _oscillator(family, mode, used, t)
 
     out: dict[str, object] = {
         "id": family.id,
@@ -417,6 +445,10 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "low": _num(nominal, "low"),
         "duty": _num(nominal, "duty"),
         "calibration_factor": _num(calib, "factor"),
+        "divide": divide,
+        "divide_choices": (", ".join(str(n) for n in tim.counter.divide_by) if tim.counter is not None else None),
+        "osc_frequency": osc_f,
+        "osc_frequency_max": osc_f_max,
         "trigger_period": trigger_period,
         "trigger_edge": edge,
         "trigger_high": ctrig.high if ctrig is not None else None,

@@ -30,6 +30,7 @@ def network_values(model: Model) -> dict:
         "cont": model.cont,
         "r_internal": model.r_internal,
         "pot_in": model.pot_in if model.pot else None,
+        "divide": model.divide,  # counter timers: the divide ratio N in use (None: the oscillator itself)
     }
 
 

@@ -100,6 +100,12 @@ def design(
         raise InputError("design needs a target: --width, --period or --freq (or --range)")
     series = eseries.series_name(series, "--series")
     c_series = eseries.series_name(c_series, "--c-series")
+    if family.timing.law == "counter":
+        if circuit.mode is None and target.kind == "width":
+            circuit = circuit.with_(mode="mono")  # a counter timer's width is its single interval
+        if circuit.divide is None:
+            return _counter_design(family, circuit, series=series, keep_c=keep_c, limit=limit,
+                                   good_enough=good_enough, c_series=c_series)
     if circuit.mode is None and target.kind in ("period", "freq") and family.function in ("timer-555", "monostable-astable"):
         circuit = circuit.with_(mode="astable")
     mode = resolve_mode(family, circuit)
@@ -172,6 +178,48 @@ def design(
     assumptions += [a for a in probe.assumptions if a not in assumptions and "part number names" in a]
     return DesignResult(family.id, mode, tjson, series, unique[:limit], findings, assumptions,
                         tolerances(circuit), maker=probe.maker, maker_basis=probe.maker_basis, c_series=c_series)
+
+
+def _counter_design(family: Family, circuit: Circuit, **kw) -> DesignResult:
+    """A counter timer with no ``--divide``: design at every divide ratio the family publishes
+    and say which one to use. Ranked: candidates no blocking rule rejects first (an oscillator
+    above its formula's range is rejected by a rule), then within the series' tolerance, then
+    the largest divide ratio (the smallest timing capacitor for the time: a film part rather
+    than an electrolytic, and a shorter oscillator period to count; common practice), then
+    the smallest error."""
+    from advisor.timing.model import check_divide, divide_choices
+
+    check_divide(family, circuit.divide)
+    results, problems = [], []
+    for n in divide_choices(family):
+        try:
+            results.append((n, design(family, circuit.with_(divide=n), **kw)))
+        except InputError as exc:
+            problems.append(exc)
+    if not results:
+        why = problems[-1].message if problems else "no divide ratio is published"
+        raise InputError(f"{family.id}: no divide ratio it can select ({', '.join(map(str, divide_choices(family)))}) "
+                         f"gives a network for this target: at the last one, {why}",
+                         hint="a longer time needs a larger Ct or a second counter stage; a shorter one a faster part")
+    step = eseries.tolerance(kw.get("series") or "E24")
+
+    def rank(item):
+        n, cd = item
+        rejected = any("kept-values" in f.blocks for f in cd.findings)
+        err = abs(cd.error) + 0.5 * abs(cd.duty_error or 0.0)
+        return (rejected, err > step, -n, err)
+
+    pool = sorted(((n, cd) for n, res in results for cd in res.candidates), key=rank)
+    best_n = pool[0][0]
+    first = dict(results)[best_n]
+    limit = kw.get("limit", 5)
+    cands = [cd for _, cd in pool][:limit]
+    notes = list(first.assumptions) + [
+        f"divide ratio {best_n} chosen (no --divide given): the largest of "
+        f"{', '.join(str(n) for n in divide_choices(family))} whose network sits inside the part's limits and its "
+        f"formula's range; give --divide N to design for another"]
+    return DesignResult(first.part, first.mode, first.target, first.series, cands, first.findings, notes,
+                        first.tolerances, maker=first.maker, maker_basis=first.maker_basis, c_series=first.c_series)
 
 
 def _covers(cd: Candidate, window) -> bool:

@@ -140,3 +140,30 @@ def cd4541_oscillator(k_osc, r, c):
 
 #: Divide ratios a 4541 can select with its A/B program pins.
 CD4541_DIVIDERS = (2 ** 8, 2 ** 10, 2 ** 13, 2 ** 16)
+
+
+def counter_period(k_osc, r, c, n):
+    """Counter-timer output period T_out = N·k·Rt·Ct, in s.
+
+    An RC oscillator of period T = k·Rt·Ct drives a binary counter (or a programmed
+    count); the output taken at divide ratio N has the period N·T and, for a binary
+    stage, a square shape. k is the maker's oscillator constant (dimensionless: 2.3 in
+    the Philips HEF4541B, January 1995, "typical formula for oscillator frequency"
+    f = 1/(2.3·Rt·Ct); 2.5 in the Philips 74HC/HCT4060, December 1990, Fig.10). N is a
+    count the family publishes (``counter.divide_by``). Rt in Ω, Ct in F.
+    Sources: the family's catalog entries (maker's datasheet, oscillator formula and
+    frequency-selection table).
+    """
+    return n * k_osc * r * c
+
+
+def counter_delay(k_osc, r, c, n, fraction):
+    """Counter-timer single interval t = fraction·N·k·Rt·Ct, in s.
+
+    From the reset's release the output at divide ratio N first changes after
+    fraction·N oscillator periods: a binary stage 2^n first rises after 2^(n-1)
+    counts (fraction 0.5: Philips HEF4541B, January 1995, function table note 2,
+    "the output changes state after 2^(n-1) counts"); a programmed count after N
+    (fraction 1). Units and k as :func:`counter_period`.
+    """
+    return fraction * n * k_osc * r * c

@@ -23,6 +23,7 @@ Monte Carlo run over all of them (:meth:`Model.for_alternative`).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field, replace
 
 from advisor.circuit import Circuit
@@ -71,6 +72,7 @@ class Model:
     cont: float | None = None  # V, driven 555 control pin
     pot_in: str | None = None  # 555 astable: "ra" or "rb", the resistor the trimmer adds to
     pot_end: float = 0.0  # Ω in circuit at each stop of the trimmer
+    divide: int | None = None  # counter law: the divide ratio N given (None: the oscillator itself)
 
     def pot_r(self, p: dict) -> float:
         """The trimmer's resistance in circuit (Ω) for the wiper position ``rp`` (0 … pot):
@@ -147,6 +149,10 @@ class Model:
 def resolve_mode(family: Family, circuit: Circuit) -> str:
     fn = family.function
     if fn == "programmable-timer":
+        # A counter timer's single interval (reset released -> output's first change) is its
+        # "mono" mode; the divided square wave (the default) its astable mode.
+        if family.timing.law == "counter" and circuit.mode == "mono":
+            return "mono"
         return "astable"
     if fn == "monostable":
         if circuit.mode == "astable":
@@ -233,7 +239,7 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
         # published figure the resistor tolerance stands in for it.
         ranges["r"] = (r * (1 - rt), r * (1 + rt))
         kinds["r"] = "r"
-        if mode == "astable" and law not in ("cd4047", "cd4541"):
+        if mode == "astable" and law not in ("cd4047", "cd4541", "counter"):
             raise InputError(f"{family.id}: law {law!r} has no astable form", got="astable", expected="--mode mono")
 
     needed = {
@@ -241,12 +247,14 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
         "ln-supply": ("a",),
         "cd4047": ("k_mono",) if mode == "mono" else ("k_astable",),
         "cd4541": ("k_osc",),
+        "counter": ("k_osc",),
         "timer-555": ("upper_threshold", "lower_threshold", "r_discharge"),
     }[law]
     if mode == "mono":
         needed = tuple(n for n in needed if n != "r_discharge")  # it only holds C at zero between pulses
     if law == "timer-555":
         needed += ("mono_k",) if mode == "mono" else ("astable_k",)
+    _bind_divide(family, circuit, mode, params, assumptions)
     cont = getattr(circuit, "cont", None)
     if law == "timer-555" and cont is not None and not 0 < cont < vcc:
         raise InputError(f"control voltage {cont:g} V must lie between 0 and the supply {vcc:g} V", got=cont)
@@ -265,7 +273,52 @@ def build(family: Family, circuit: Circuit, *, need_network: bool = True) -> Mod
         pot=pot, pot_setting=setting if pot is not None else None, assumptions=assumptions,
         r_internal=r_internal, tolerance_kind=kinds, cont=getattr(circuit, "cont", None) if law == "timer-555" else None,
         alternatives=alts, maker=choice.maker, maker_basis=choice.basis, pot_in=pot_in, pot_end=pot_end,
+        divide=circuit.divide if law == "counter" else None,
     )
+
+
+def divide_choices(family: Family) -> tuple[int, ...]:
+    """The divide ratios a counter timer publishes (``timing.counter.divide_by``); () otherwise."""
+    counter = family.timing.counter
+    return tuple(counter.divide_by) if family.timing.law == "counter" and counter is not None else ()
+
+
+def _listed(counts: tuple[int, ...]) -> str:
+    return ", ".join(str(n) for n in counts)
+
+
+def check_divide(family: Family, divide: int | None, flag: str = "--divide") -> None:
+    """Refuse a divide ratio the family cannot select, or one given to a part without a counter."""
+    if divide is None:
+        return
+    choices = divide_choices(family)
+    if not choices:
+        raise InputError(f"{flag} {divide}: the {family.id} has no counter to divide by (law "
+                         f"{family.timing.law!r}); leave {flag} out", got=divide,
+                         expected="a counter-based timer (programmable timer) for a divide ratio")
+    if divide not in choices:
+        nearest = min(choices, key=lambda n: abs(math.log(n / divide)))
+        raise InputError(f"{flag} {divide} is not a divide ratio the {family.id} can select (nearest: {nearest})",
+                         got=divide, expected=f"one of {_listed(choices)} (catalog timing.counter.divide_by)")
+
+
+def _bind_divide(family: Family, circuit: Circuit, mode: str, params: dict, assumptions: list[str]) -> None:
+    """Counter law: the divide ratio N and the delay fraction as the model's params ``n``,
+    ``delay_fraction`` (advisor.timing.registry, law ``counter``)."""
+    check_divide(family, circuit.divide)
+    if family.timing.law != "counter":
+        return
+    counter = family.timing.counter
+    params["delay_fraction"] = counter.delay_fraction if counter is not None else 0.5
+    if circuit.divide is not None:
+        params["n"] = float(circuit.divide)
+        return
+    if mode == "mono":
+        raise InputError(f"{family.id}: give the divide ratio (--divide N) for the single interval",
+                         expected=f"one of {_listed(divide_choices(family))}")
+    params["n"] = 1.0
+    assumptions.append(f"no divide ratio given (--divide): times are the {family.id}'s oscillator itself; the "
+                       f"counter outputs divide it by {_listed(divide_choices(family))}")
 
 
 @dataclass(frozen=True)

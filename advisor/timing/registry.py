@@ -65,6 +65,14 @@ LAWS: dict[str, LawSpec] = {
         "cd4541", ("k_osc",), {"astable": "k_osc", "mono": "k_osc"},
         "oscillator period = k_osc Rt Ct, divided by the programmed count",
         astable=_square(lambda p, r: laws.cd4541_oscillator(p["k_osc"], r, p["c"]))),
+    # The counter law: N (``divide``, 1 = the oscillator itself) and the delay fraction are
+    # the model's params ``n`` and ``delay_fraction`` (advisor.timing.model.build).
+    "counter": LawSpec(
+        "counter", ("k_osc",), {"astable": "k_osc", "mono": "k_osc"},
+        "oscillator period T = k_osc Rt Ct; output period N T at divide ratio N (square); "
+        "single interval after reset = fraction x N x T (0.5 for a binary stage)",
+        mono=lambda p, r: laws.counter_delay(p["k_osc"], r, p["c"], p.get("n", 1.0), p.get("delay_fraction", 0.5)),
+        astable=_square(lambda p, r: laws.counter_period(p["k_osc"], r, p["c"], p.get("n", 1.0)))),
 }
 
 

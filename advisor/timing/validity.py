@@ -76,7 +76,7 @@ def network_facts(model: Model) -> dict:
         name: {"unverified": k.unverified, "interpolated": k.interpolated, "outside_c_range": k.outside_c_range}
         for name, k in model.constants.items()
     }
-    return {
+    out = {
         "r_path_min": None if model.r_internal else r_path_min,
         "r_path_min_what": what_min,
         "r_path_max": r_path_max,
@@ -84,4 +84,24 @@ def network_facts(model: Model) -> dict:
         "pot_in_discharge_path": bool(pot) and (not astable555 or trim_in_ra),
         "limits": limits,
         "constants": constants,
+    }
+    if model.law == "counter":
+        out["counter"] = counter_facts(model)
+    return out
+
+
+def counter_facts(model: Model) -> dict:
+    """A counter timer's divide ratio, the ratios it can select and its nominal oscillator
+    (period s, frequency Hz): the output time is N oscillator periods (astable) or
+    fraction × N (the single interval), advisor.timing.laws.counter_period/counter_delay."""
+    counter = model.family.timing.counter
+    p = model.params
+    n, frac = p.get("n", 1.0), p.get("delay_fraction", 0.5)
+    t = model.times()[model.main_quantity]
+    period = t / (n if model.mode == "astable" else frac * n)
+    return {
+        "divide": model.divide,
+        "divide_by": list(counter.divide_by) if counter is not None else [],
+        "delay_fraction": frac,
+        "oscillator": {"period": period, "frequency": 1.0 / period if period > 0 else None},
     }
