@@ -33,7 +33,7 @@ from advisor.parts import SHARED_PIN_FUNCTIONS, Family, Package, TriggerInput
 POWER = ("VCC", "GND")
 TRIGGERS = ("TRIG_FALL", "TRIG_RISE", "TRIG")
 CLEARS = ("CLEAR", "RESET", "MASTER_RESET", "AUTO_RESET")
-OUTPUTS = ("Q", "QN", "OUT", "OSC_OUT", "OUT_C", "OUT_E")
+OUTPUTS = ("Q", "QN", "OUT", "OSC_OUT", "OUT_C", "OUT_E", "Q_TAP")
 #: VREF: the LM3905 timing resistor runs from its reference output, not from VCC.
 NETWORK = ("CEXT", "RCEXT", "RINT", "REXT", "THRES", "DIS", "CONT", "RC_COMMON", "RS", "RTC", "CTC", "VREF")
 #: Controls a multi-section part may bring out once for all its sections (channel left out).
@@ -45,7 +45,9 @@ RELATED: dict[str, tuple[str, ...]] = {
     "TRIG": ("TRIG_FALL",),
     "TRIG_FALL": ("TRIG",),
     "OUT": ("Q",),
-    "Q": ("OUT",),
+    "Q": ("OUT", "Q_TAP"),
+    # a counter timer's stage outputs (74HC4060): the note on each pin names its divide ratio
+    "Q_TAP": ("Q",),
     "RESET": ("CLEAR", "MASTER_RESET"),
     "CLEAR": ("RESET", "MASTER_RESET"),
     "MASTER_RESET": ("CLEAR", "RESET"),
@@ -93,7 +95,7 @@ def network_kind(fam: Family) -> str:
     (one-shots: C across Cext–Rext/Cext, R from Rext/Cext to the supply)."""
     if is_555(fam):
         return "555"
-    return {"cd4047": "4047", "cd4541": "4541"}.get(fam.timing.law, "rc-pins")
+    return {"cd4047": "4047", "cd4541": "4541", "counter": "4541"}.get(fam.timing.law, "rc-pins")
 
 
 @dataclass(frozen=True)
@@ -585,6 +587,9 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
                 cand = new_pins(rel, new_ch)
                 if cand:
                     note = f"{p.function} on {old.id} becomes {rel} on {new.id}: same job, check the datasheet"
+                    if rel == "Q_TAP":  # one pin per divide ratio: the first is only a placeholder
+                        note = (f"{p.function} on {old.id} goes to the {new.id} counter output for the divide "
+                                f"ratio used (--divide): each output pin's note names its ratio; check the datasheet")
                     break
         if cand:
             if cand[0].channel is None and new.channels > 1:
