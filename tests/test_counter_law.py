@@ -174,3 +174,30 @@ def _target(kind, value):
     from advisor.circuit import Target
 
     return Target(kind, value)
+
+
+# --- swap between counter timers ----------------------------------------------------------
+
+def _swap_json(*argv):
+    run = retime("swap", *argv, "--json")
+    assert run.code == 0, run.err
+    return json.loads(run.out)
+
+
+def test_swap_takes_the_output_to_the_tap_of_the_ratio():
+    d = _swap_json("CD4541B", "74HC4060", "--r", "56k", "--c", "1n", "--divide", "1024")
+    assert d["new"]["values"]["divide"] == 1024
+    out = [lk for lk in d["pin_map"]["links"] if lk["old_pin"] == 8]  # CD4541B output O (Philips HEF4541B pinning)
+    # Motorola MC74HC4060 REV 6 logic diagram: Q10 (/1024) is pin 15
+    assert [lk["new_pin"] for lk in out] == [15]
+
+
+def test_swap_with_a_ratio_the_new_part_lacks_lets_design_choose():
+    d = _swap_json("CD4541B", "74HC4060", "--r", "56k", "--c", "1n", "--divide", "65536")
+    assert d["new"]["values"]["divide"] in (16, 32, 64, 128, 256, 512, 1024, 4096, 8192, 16384)
+    assert any("--divide 65536 is not a ratio the 74HC4060 can select" in a for a in d["assumptions"])
+
+
+def test_swap_new_divide_is_checked():
+    err = _error("swap", "CD4541B", "74HC4060", "--r", "56k", "--c", "1n", "--new-divide", "100")
+    assert "--new-divide 100 is not a divide ratio the 74HC4060 can select (nearest: 128)" in err

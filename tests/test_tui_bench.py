@@ -127,7 +127,7 @@ FLAG_FIELD = {
 #: --divide (a counter timer's divide ratio) has no form field yet: the workbench times counter
 #: timers at their oscillator; giving the form a divide field is open work.
 NOT_ON_THE_FORM = {"--json", "--catalog", "--no-picture", "--help", "--fail-on", "--range", "--monte-carlo",
-                   "--divide"}
+                   "--divide", "--new-divide"}
 
 
 def test_every_circuit_flag_of_check_and_swap_has_a_field():

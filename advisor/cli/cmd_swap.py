@@ -23,6 +23,9 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("new", metavar="NEW", help="the part to fit instead, e.g. 74HC221")
     add_circuit_options(p, targets=False)
     add_new_vcc_option(p)
+    p.add_argument("--new-divide", metavar="N",
+                   help="counter-based new part: its divide ratio (default: --divide when the new part can "
+                        "select it, else the ratio design chooses)")
     from advisor.cli.options import add_fail_on_option, add_keep_within_option, add_series_options
 
     add_series_options(p, capacitors=False)
@@ -39,6 +42,7 @@ def register(p: argparse.ArgumentParser) -> None:
 def compute(args: argparse.Namespace):
     """The engine's answer for these arguments (the Python API calls it too)."""
     from advisor.cli.options import circuit_from_args, keep_within_from_args, new_vcc_from_args, series_from_args, with_series
+    from advisor.cli.options import count_from_args
     from advisor.cli.output import catalog_for
     from advisor.substitute.swap import swap
 
@@ -48,7 +52,7 @@ def compute(args: argparse.Namespace):
     result = swap(catalog, old.id, args.new, with_series(args, circuit_from_args(args, old.id)),
                   new_vcc=new_vcc_from_args(args), series=series, old_package=args.old_package,
                   new_package=args.new_package, keep_within=keep_within_from_args(args),
-                  new_maker=getattr(args, "maker", None))
+                  new_maker=getattr(args, "maker", None), new_divide=count_from_args(args, "--new-divide"))
     from advisor.overrides import note_overrides
 
     return note_overrides(result, catalog)

@@ -348,6 +348,7 @@ class _Pin:
     name: str
     function: str
     channel: int | None
+    note: str | None = None
 
 
 @dataclass(frozen=True)
@@ -364,7 +365,7 @@ def _normalised(fam: Family, pkg: Package) -> _Pkg:
         ch = p.channel
         if ch is None and fam.channels == 1 and p.function not in (*POWER, "NC"):
             ch = 1
-        pins.append(_Pin(p.pin, p.name, p.function, ch))
+        pins.append(_Pin(p.pin, p.name, p.function, ch, p.note))
     return _Pkg(pkg.name, tuple(pins))
 
 
@@ -377,6 +378,7 @@ def map_pins(
     old_package: str | None = None,
     new_package: str | None = None,
     assume_edge: bool = True,
+    divide: int | None = None,
 ) -> PinMap:
     """Map every old pin to the new part, channel by channel.
 
@@ -385,6 +387,8 @@ def map_pins(
     (``assume_edge=False``, for astables, maps trigger pins by function instead).
     ``uses_internal_r`` tells that the old board times with the old part's internal
     resistor (no external Rext), so a new part without one needs an added resistor.
+    ``divide``: a counter timer's divide ratio; the output then goes to the new part's
+    counter output (``Q_TAP``) whose note names that ratio ("/1024").
     """
     op, np_ = choose_packages(old, new, old_package, new_package)
     op, np_ = _normalised(old, op), _normalised(new, np_)
@@ -434,6 +438,8 @@ def map_pins(
         if not found and channel is not None and function in SHARED_CONTROLS:
             # one control pin common to every section (the NE558's RESET and CONTROL VOLTAGE)
             found = [p for p in np_.pins if p.function == function and p.channel is None and p.pin not in new_used]
+        if function == "Q_TAP" and divide is not None:  # the tap for the ratio in use first
+            found.sort(key=lambda p: (p.note or "").strip() != f"/{divide}")
         return found
 
     def link(old_pin, new_pin, note=None) -> None:
@@ -463,7 +469,7 @@ def map_pins(
                                                "second part if the board uses it", blocking=False))
             continue
         _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_internal_r, cross_kind,
-                     new_pins, link, ties, unmatched, additions, np_)
+                     new_pins, link, ties, unmatched, additions, np_, divide=divide)
 
     # --- new pins left over: enable levels, clears, unused sections --------------
     linked_new = {lk.new_pin for lk in links} | {t.new_pin for t in ties}
@@ -549,7 +555,7 @@ def _inactive_clear(fam: Family, function: str, active: TriggerInput | None) -> 
 
 
 def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_internal_r, cross_kind,
-                 new_pins, link, ties, unmatched, additions, np_) -> None:
+                 new_pins, link, ties, unmatched, additions, np_, divide=None) -> None:
     """Map one section's pins (helper of :func:`map_pins`)."""
     for p in pins:
         k = kind_of(p.function)
@@ -587,9 +593,11 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
                 cand = new_pins(rel, new_ch)
                 if cand:
                     note = f"{p.function} on {old.id} becomes {rel} on {new.id}: same job, check the datasheet"
-                    if rel == "Q_TAP":  # one pin per divide ratio: the first is only a placeholder
-                        note = (f"{p.function} on {old.id} goes to the {new.id} counter output for the divide "
-                                f"ratio used (--divide): each output pin's note names its ratio; check the datasheet")
+                    if rel == "Q_TAP":  # one pin per divide ratio
+                        note = (f"{p.function} on {old.id} goes to the {new.id} counter output "
+                                + (f"for /{divide}" if divide is not None and (cand[0].note or "").strip() == f"/{divide}"
+                                   else "for the divide ratio used (give --divide; each output pin's note names its ratio)")
+                                + "; check the datasheet")
                     break
         if cand:
             if cand[0].channel is None and new.channels > 1:

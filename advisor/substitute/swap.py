@@ -89,10 +89,18 @@ def _side(fam: Family, t, vcc: float | None) -> PartSide:
                     fam.technology, fam.status, trig, getattr(t, "maker", None), getattr(t, "maker_basis", None))
 
 
-def new_circuit_for(circuit: Circuit, new: Family, vcc: float | None, mode: str) -> Circuit:
-    """The old circuit's network on the new part at the new supply (no measurement, no target)."""
+def new_circuit_for(circuit: Circuit, new: Family, vcc: float | None, mode: str,
+                    new_divide: int | None = None) -> Circuit:
+    """The old circuit's network on the new part at the new supply (no measurement, no target).
+
+    A counter timer's divide ratio: ``new_divide`` when given, else the old circuit's when the
+    new part can select it, else none (design then chooses one, saying so)."""
+    from advisor.timing.model import divide_choices
+
+    divide = new_divide if new_divide is not None else (
+        circuit.divide if circuit.divide in divide_choices(new) else None)
     return circuit.with_(part=new.id, vcc=vcc, mode=mode if new.function != "monostable" else None,
-                         measured=None, target=None)
+                         measured=None, target=None, divide=divide)
 
 
 def swap(
@@ -108,6 +116,7 @@ def swap(
     old_result=None,
     keep_within: float | None = None,
     new_maker: str | None = None,
+    new_divide: int | None = None,
 ) -> SwapResult:
     """Replace ``old_query`` by ``new_query`` in ``circuit`` (see the module docstring).
 
@@ -148,7 +157,13 @@ def swap(
     from advisor.makers import makers_of
 
     new_makers, new_basis = makers_of(catalog, new_query, new_maker)
-    base = new_circuit_for(circuit, new, vcc, mode).with_(makers=new_makers, maker_basis=new_basis)
+    from advisor.timing.model import check_divide
+
+    check_divide(new, new_divide, "--new-divide")
+    base = new_circuit_for(circuit, new, vcc, mode, new_divide).with_(makers=new_makers, maker_basis=new_basis)
+    if circuit.divide is not None and base.divide is None and new.timing.law == "counter":
+        assumptions.append(f"--divide {circuit.divide} is not a ratio the {new.id} can select: the design "
+                           "chooses one (give --new-divide N)")
 
     # --- values: keep them when they keep the pulse, else design -----------------
     chosen = None  # (circuit, how)
@@ -185,7 +200,8 @@ def swap(
                 design_info["other_option"] = {"values": other.values, "error": other.error, "kept_c": other.kept_c}
             vals = pick.values
             chosen = (base.with_(r=vals.get("r"), ra=vals.get("ra"), rb=vals.get("rb"), c=vals.get("c"),
-                                 pot=vals.get("pot"), pot_setting=vals.get("pot_setting")), how)
+                                 pot=vals.get("pot"), pot_setting=vals.get("pot_setting"),
+                                 divide=vals.get("divide", base.divide)), how)
             design_info["alternatives"] = [
                 {"values": c.values, "error": c.error, "kept_c": c.kept_c} for c in d.candidates[:5]]
             assumptions.extend(f"design: {a}" for a in d.assumptions)
@@ -207,7 +223,8 @@ def swap(
     # --- pins, facts, findings, class, rework ----------------------------------
     edge = circuit.trigger.edge
     pm = map_pins(old, new, edge=edge, uses_internal_r=uses_rint,
-                  old_package=old_package, new_package=new_package, assume_edge=mode == "mono")
+                  old_package=old_package, new_package=new_package, assume_edge=mode == "mono",
+                  divide=final_c.divide)
     old_values = dict(old_t.values)
     if uses_rint:
         old_values["r"] = None  # the internal resistor is not a part on the board
