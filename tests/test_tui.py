@@ -97,6 +97,21 @@ async def test_enter_takes_the_part_to_the_workspace():
         assert app.screen.query_one("#f-old", Input).value == "74HC221"
 
 
+
+async def test_a_ranking_that_lands_after_the_desk_closed_is_dropped():
+    # The alternates ranking runs in a worker thread; its answer can arrive after the desk left
+    # the screen stack (Esc, or the app shutting down). A property of the design: it is dropped,
+    # never a failed worker (seen as an intermittent NoMatches under load).
+    app = Workbench()
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press(*"74HC221", "enter")
+        await pilot.pause(0.25)
+        desk = app.screen
+        assert isinstance(desk, WorkspaceScreen)
+    # The app has shut down and the desk's widgets are gone; the late answer must be dropped.
+    desk._show_alternates(desk._alt_key, ({"candidates": [{"family": "74HC123"}]}, None))
+
+
 # --- check/swap desk -------------------------------------------------------------------
 
 async def test_changing_r_changes_the_width():

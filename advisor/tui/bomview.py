@@ -19,6 +19,7 @@ from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Input, Label, ProgressBar, Static
 
 from advisor.errors import RetimeError
+from advisor.tui.late import dropped_when_closed
 from advisor.tui.palette import STYLE
 from advisor.values import parse_quantity
 
@@ -87,6 +88,7 @@ class BomScreen(Screen):
     def on_input_submitted(self, event: Input.Submitted) -> None:
         self.start_review()
 
+    @dropped_when_closed
     def _say(self, message: str, style: str = "warning") -> None:
         self.query_one("#bom-note", Static).update(Text(message, style=STYLE[style]))
 
@@ -119,7 +121,7 @@ class BomScreen(Screen):
         from advisor.bom.table import read_table
 
         def progress(done: int, total: int) -> None:
-            self.app.call_from_thread(self.query_one("#bom-progress", ProgressBar).update, total=total, progress=done)
+            self.app.call_from_thread(self._progress, done, total)
 
         try:
             table = read_table(path)
@@ -134,6 +136,11 @@ class BomScreen(Screen):
             return
         self.app.call_from_thread(self.show_result, res)
 
+    @dropped_when_closed
+    def _progress(self, done: int, total: int) -> None:
+        self.query_one("#bom-progress", ProgressBar).update(total=total, progress=done)
+
+    @dropped_when_closed
     def show_result(self, res) -> None:
         self.result = res
         table = self.query_one("#bom-table", DataTable)

@@ -22,6 +22,7 @@ from textual.widgets.option_list import Option
 
 from advisor.presentation import class_words, function_words, trigger_verdict
 from advisor.tui.bridge import ALL_FIELDS, CAPTURE_FIELDS, FIELD_BY_KEY, REPORT_FIELDS, SECTIONS, Outcome, evaluate
+from advisor.tui.late import dropped_when_closed
 from advisor.tui.palette import SEVERITY_MARK, STYLE
 from advisor.tui.prose import Prose
 from advisor.tui.waveform import TimingPicture
@@ -505,6 +506,7 @@ class WorkspaceScreen(Screen):
         except RuntimeError:  # the app closed while ranking
             pass
 
+    @dropped_when_closed
     def _show_alternates(self, key: tuple, answer) -> None:
         if key != self._alt_key:
             return  # the form changed since: a newer ranking is on its way
