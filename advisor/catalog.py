@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
+import re
 from collections import Counter
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -365,20 +366,39 @@ def count_memory(fam: Family) -> int:
 #: Source kinds that count as a published document when the source names its document.
 PUBLISHED_KINDS = ("datasheet", "app-note", "standard", "textbook")
 
+#: What names a document's revision: a year (a sheet's date or "revised May 2001"), a
+#: revision word with its mark ("rev 8", "Rev. 7", "revision 3"), or a maker's literature
+#: number with its revision letter (TI SCHS142F, SLFS022A). Checked on ``document``.
+_REVISION = re.compile(r"\b(19[5-9]\d|20[0-4]\d)\b|\b[Rr][Ee][Vv](ision)?\.?\s*(\d|[A-Z]\b)|\b[A-Z]{4}\d{3}[A-Z]\b")
+
+
+def names_revision(document: str | None) -> bool:
+    """Whether a source's ``document`` text names the revision or date of what was read.
+
+    An id alone (\"TI SCBA004\", \"Hitachi data sheet\") does not: sheets change between
+    revisions, and a figure must be traceable to the one that printed it (issue 15).
+    """
+    return bool(document) and _REVISION.search(document) is not None
+
 
 def provenance(fam: Family) -> dict[str, int]:
     """Where a family's numbers come from (``catalog check --json`` ``provenance``).
 
     ``values``: every sourced number (a ``{value, source}`` entry, a range, a spread,
     a width-table row) in supply, timing, components, behaviour and interface.
-    ``published``: those whose source is a listed document with its id and revision
-    (``document`` given) and a kind in :data:`PUBLISHED_KINDS`. ``memory`` and
-    ``common_practice``: the reserved sources. ``constants_from_memory``: timing-law
-    constant entries (``timing.constants``) from memory. The rest (forum reports,
-    distributor pages, measurements, documents without an id) count in ``values`` only.
+    ``published``: those whose source is a listed document of a kind in
+    :data:`PUBLISHED_KINDS` whose ``document`` names its id and revision or date
+    (:func:`names_revision`). ``unrevised``: those whose published-kind source names no
+    revision (counted in ``values`` only). ``memory`` and ``common_practice``: the reserved
+    sources. ``constants_from_memory``: timing-law constant entries (``timing.constants``)
+    from memory. The rest (forum reports, product and distributor pages, measurements)
+    count in ``values`` only.
     """
-    out = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0}
-    published = {s.id for s in fam.sources if s.document and s.kind in PUBLISHED_KINDS}
+    out = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0,
+           "unrevised": 0}
+    of_kind = {s.id for s in fam.sources if s.document and s.kind in PUBLISHED_KINDS}
+    published = {i for i in of_kind if names_revision(next(s.document for s in fam.sources if s.id == i))}
+    unrevised = of_kind - published
 
     def count(obj: object) -> None:
         if isinstance(obj, BaseModel):
@@ -388,6 +408,7 @@ def provenance(fam: Family) -> dict[str, int]:
             if isinstance(src, str) and numeric:
                 out["values"] += 1
                 out["published"] += src in published
+                out["unrevised"] += src in unrevised
                 out["memory"] += src == "memory"
                 out["common_practice"] += src == "common-practice"
             for name in type(obj).model_fields:

@@ -7,7 +7,9 @@ import json
 import subprocess
 import sys
 
-from advisor.catalog import load_dirs, provenance
+import pytest
+
+from advisor.catalog import load_dirs, names_revision, provenance
 from support.minicat import write_family
 
 
@@ -24,6 +26,34 @@ def test_catalog_check_json_carries_provenance():
     out = subprocess.run([sys.executable, "-m", "advisor", "catalog", "check", "--json"], capture_output=True, text=True)
     j = json.loads(out.stdout)
     prov = j["provenance"]
-    assert set(prov) == {"values", "published", "memory", "common_practice", "constants_from_memory"}
-    assert prov["values"] >= prov["published"] + prov["memory"] + prov["common_practice"]
+    assert set(prov) == {"values", "published", "memory", "common_practice", "constants_from_memory", "unrevised"}
+    assert prov["values"] >= prov["published"] + prov["unrevised"] + prov["memory"] + prov["common_practice"]
     assert prov["values"] > 0
+
+
+@pytest.mark.parametrize("document, named", [
+    ("TI SCHS142F (September 1997, revised October 2003)", True),  # literature number with its letter
+    ("NXP product data sheet Rev. 7, 12 December 2011", True),
+    ("Hitachi HD74LS122 data sheet, Rev.2.00, Feb.18.2005", True),
+    ("Motorola REV 6, 10/95", True),
+    ("Philips Semiconductors product specification, 1998 Jul 08", True),
+    ("TI SCBA004", False),  # an id alone: which revision printed the figure?
+    ("Hitachi data sheet", False),
+    ("Intersil data sheet, stored copy; the FN number and revision are not on that page", False),
+])
+def test_published_means_the_document_names_its_revision(document, named):
+    # Issue 15: "name a published document by id and revision".
+    assert names_revision(document) is named
+
+
+def test_a_source_without_revision_is_counted_apart(tmp_path):
+    write_family(tmp_path)
+    fam = next(iter(load_dirs([tmp_path]).families.values()))
+
+    def citing(document: str) -> dict:
+        return provenance(fam.model_copy(update={"sources": tuple(
+            s.model_copy(update={"document": document}) for s in fam.sources)}))
+
+    dated, undated = citing("maker's data sheet rev 2, 2001"), citing("maker's data sheet")
+    assert dated["published"] > 0 and dated["unrevised"] == 0
+    assert undated["published"] == 0 and undated["unrevised"] == dated["published"]

@@ -55,7 +55,8 @@ def run(args) -> int:
     by_family = {r["id"]: r["memory_values"] for r in rows if r["memory_values"]}
     from advisor.catalog import provenance
 
-    prov = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0}
+    prov = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0,
+            "unrevised": 0}
     for k in cat.ids():
         for name, n in provenance(cat.families[k]).items():
             prov[name] += n
@@ -70,6 +71,7 @@ def run(args) -> int:
               + (f" in {len(by_family)} families" if by_family else ""))
         share = prov["published"] / prov["values"] if prov["values"] else 0.0
         print(f"provenance: {prov['values']} numbers, {prov['published']} ({share:.0%}) from a published document, "
+              f"{prov['unrevised']} from a document that names no revision, "
               f"{prov['memory']} from memory, {prov['common_practice']} common practice; "
               f"{prov['constants_from_memory']} timing constants from memory")
     return 1 if problems else 0
