@@ -128,6 +128,23 @@ def test_swap_names_both_makers():
     assert j["old"]["maker"] == "TI" and j["new"]["maker"] == "Fairchild"
 
 
+
+def test_swap_from_a_part_that_names_no_maker_says_the_target_is_uncertain():
+    # A bare 74HC123 may be NXP's (K = 0.45 at 5 V, rev 9) or Fairchild's (T = RC): the
+    # time to keep is unknown by about 2x, and the swap says so until it is measured or named.
+    base = ("swap", "74HC123", "MM74HC123AN", "--r", "10k", "--c", "100n", "--vcc", "5", "--json")
+    j = json.loads(run(*base).stdout)
+    assert "old-maker-unknown" in {f["rule"] for f in j["findings"]}
+    for extra in (("--old-maker", "Fairchild"), ("--measured-width", "1ms")):
+        k = json.loads(run(*base, *extra).stdout)
+        assert "old-maker-unknown" not in {f["rule"] for f in k["findings"]}
+    named = json.loads(run(*base, "--old-maker", "Fairchild").stdout)
+    assert named["old"]["maker"] == "Fairchild" and named["old"]["maker_basis"] == "--maker"
+    assert named["old"]["timing"]["nominal"]["width"] == pytest.approx(1.0e-3, rel=1e-6)  # Fairchild T = RC
+    assert named["class"] == "drop-in"  # the same design on both sides: the old values keep the pulse
+    bad = run(*base, "--old-maker", "Fairchlid")
+    assert bad.returncode == 2 and "--old-maker" in bad.stderr and "Fairchild" in bad.stderr
+
 def test_unknown_maker_in_a_family_is_a_catalog_problem(tmp_path):
     import shutil
 

@@ -23,6 +23,9 @@ def register(p: argparse.ArgumentParser) -> None:
     p.add_argument("new", metavar="NEW", help="the part to fit instead, e.g. 74HC221")
     add_circuit_options(p, targets=False)
     add_new_vcc_option(p)
+    p.add_argument("--old-maker", metavar="NAME",
+                   help="the old part's maker, when its part number names none (read from its markings): "
+                        "the time to keep then follows that maker's constant (--maker names the new part's)")
     p.add_argument("--new-divide", metavar="N",
                    help="counter-based new part: its divide ratio (default: --divide when the new part can "
                         "select it, else the ratio design chooses)")

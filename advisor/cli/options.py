@@ -9,7 +9,7 @@ from __future__ import annotations
 import argparse
 
 from advisor.circuit import Circuit, Measurement, Target, Trigger
-from advisor.errors import ValueParseError
+from advisor.errors import RetimeError, ValueParseError
 from advisor.inputnames import typed_flag
 from advisor.values import parse_range, read_value
 
@@ -249,15 +249,22 @@ def stock_from_args(args: argparse.Namespace, catalog):
 def _makers_from_args(args: argparse.Namespace) -> dict:
     """``makers``/``maker_basis`` of the typed part number (``PART`` of check and design,
     ``OLD`` of swap and alternates); ``--maker`` forces the maker of ``PART`` (swap
-    applies it to the new part)."""
+    applies it to the new part), ``--old-maker`` that of swap's ``OLD``."""
     typed = getattr(args, "part", None) or getattr(args, "old", None)
-    forced = getattr(args, "maker", None) if getattr(args, "part", None) is not None else None
+    forced = getattr(args, "maker", None) if getattr(args, "part", None) is not None else getattr(args, "old_maker", None)
     if typed is None and forced is None:
         return {}
     from advisor.cli.output import catalog_for
     from advisor.makers import makers_of
 
-    makers, basis = makers_of(catalog_for(args), typed or "", forced)
+    try:
+        makers, basis = makers_of(catalog_for(args), typed or "", forced)
+    except RetimeError as exc:
+        if getattr(args, "part", None) is None and forced is not None:
+            from advisor.inputnames import renamed
+
+            raise renamed(exc, {"--maker": "--old-maker"}) from None
+        raise
     return {"makers": makers, "maker_basis": basis}
 
 
