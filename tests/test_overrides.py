@@ -176,7 +176,9 @@ def test_a_user_folder_that_only_adds_lists_nothing(tmp_path, monkeypatch):
     assert not any("replaces" in a for a in json.loads(run.out)["assumptions"])
 
 
-def test_the_loaders_record_each_replacement_and_the_cache_keeps_them(user_folders):
+def test_the_loaders_record_each_replacement_and_the_cache_keeps_them(user_folders, monkeypatch):
+    import advisor.catalog
+    import advisor.rules.loader
     from advisor.catalog import load_catalog
     from advisor.overrides import Override
     from advisor.rules.loader import load_rules
@@ -192,6 +194,12 @@ def test_the_loaders_record_each_replacement_and_the_cache_keeps_them(user_folde
     assert os.environ.get("RETIME_CACHE")  # tests/conftest.py: a fresh cache folder per session
     load_catalog.cache_clear()
     _reset_rules()
+
+    def no_yaml(dirs):
+        raise AssertionError("read the YAML again instead of the cache")
+
+    monkeypatch.setattr(advisor.catalog, "load_dirs", no_yaml)
+    monkeypatch.setattr(advisor.rules.loader, "load_dirs", no_yaml)
     assert load_catalog((str(cat),)).overrides == first  # read back from the JSON cache
     assert [o.id for o in load_rules().overrides] == ["supply-above-abs-max", "cmos-unused-inputs"]
     load_catalog.cache_clear()
