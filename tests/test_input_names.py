@@ -109,3 +109,15 @@ def test_workbench_messages_name_the_fields():
     assert ranked is None and "('R')" in problem
     for text in (out.problem, problem):
         assert not FLAG.findall(text), text
+
+
+def test_a_board_names_the_parts_on_the_timing_pins():
+    from types import SimpleNamespace
+
+    from advisor.board.plan import channel_names
+    from advisor.inputnames import rename_flags
+
+    ch = SimpleNamespace(parts={"r": ["R3", "R4"], "c": ["C2"], "pot": []}, vcc_net="+5V")
+    text = "NE555: these values give a width of 0 s: the timing resistance (--r) or the capacitor (--c); --pot, --vcc"
+    assert rename_flags(text, channel_names(ch)) == (
+        "NE555: these values give a width of 0 s: the timing resistance (R3 + R4) or the capacitor (C2); --pot, rail +5V")

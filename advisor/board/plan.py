@@ -168,7 +168,9 @@ def plan_board(catalog, board: Board, *, new_vcc: float | None = None, supplies:
                     unresolved.append(Problem(f"{ch.label}: no catalog part runs this circuit at "
                                               f"{new_vcc if new_vcc is not None else ch.vcc:g} V", where, "network"))
         except RetimeError as exc:
-            unresolved.append(Problem(f"{ch.label}: {exc.message}", where, "network"))
+            from advisor.inputnames import rename_flags
+
+            unresolved.append(Problem(f"{ch.label}: {rename_flags(exc.message, channel_names(ch))}", where, "network"))
             continue
         roles = {"old": part_values(ch.family, tp.circuit, tp.check.to_json())}
         if tp.choice is not None:
@@ -177,6 +179,16 @@ def plan_board(catalog, board: Board, *, new_vcc: float | None = None, supplies:
                                        tp.choice.to_json())
         tp.findings = evaluate_board_rules(rules, board_facts(ch, ch.family, after_high), roles)
     return BoardPlan(board, new_vcc, dict(supplies or {}), channels, plans, bom_delta(board, plans), unresolved)
+
+
+def channel_names(ch) -> dict[str, str]:
+    """What the board has in place of each flag the engine's messages name (advisor.inputnames):
+    the references of the parts on the channel's timing pins (``--r`` -> ``R3``, ``--c`` ->
+    ``C2``), and its supply rail."""
+    out = {f"--{role}": " + ".join(refs) for role, refs in (ch.parts or {}).items() if refs}
+    if ch.vcc_net:
+        out["--vcc"] = f"rail {ch.vcc_net}"
+    return out
 
 
 def _cached(cache: dict, key, make):
