@@ -44,6 +44,9 @@ def test_design_spells_its_targets_without_the_target_prefix():
     (["design", "NE555", "--width", "1ms", "--period", "2ms"],
      "retime: error: give one target at a time (--width, --period or --freq)"),
     (["design", "74HC123", "--freq", "1k"], "retime: error: a monostable has no frequency; give --width"),
+    (["design", "NE555", "--period", "1ms", "--duty", "2"],
+     "retime: error: --duty '2' is not a duty; expected the high share of the period, above 0 and below 1 "
+     "(e.g. 0.6 or 60%)"),
     (["check", "NE555", "--r", "10k", "--c", "10n", "--target-width", "1x"],
      "retime: error: --target-width: cannot read '1x' as a time in s; expected a time in s, for example 64us, "
      "64 µs, 1.5 ms"),

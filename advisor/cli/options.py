@@ -148,6 +148,10 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         measured = from_capture
     target = None
     duty = _get(args, "--duty", "fraction") if hasattr(args, "duty") else None
+    if duty is not None and not 0.0 < duty < 1.0:
+        # the high share of a period: 2 (200 %) or 0 has no meaning, and was printed back as wanted
+        raise ValueParseError(f"--duty {args.duty!r} is not a duty", got=args.duty,
+                              expected="the high share of the period, above 0 and below 1 (e.g. 0.6 or 60%)")
     rng = None
     if getattr(args, "range", None):
         try:
