@@ -225,6 +225,9 @@ def test_reports_the_api_and_the_workbench_carry_the_lines(user_folders, tmp_pat
 
     cat, rules = user_folders
     want = expected_lines(cat, rules)
+    written = tmp_path / "reviewed.md"
+    assert retime("bom", str(_bom(tmp_path)), "--catalog", str(cat), "-o", str(written)).code == 0
+    assert all(line in written.read_text(encoding="utf-8") for line in want)
     report = tmp_path / "check.md"
     assert retime("check", "NE555", "--r", "10k", "--c", "10n", "--vcc", "5", "--catalog", str(cat),
                   "--report", str(report)).code == 0

@@ -165,6 +165,8 @@ def _markdown(res: BomResult) -> str:
     lines += ["| status | lines |", "|---|---|"]
     lines += [f"| {k} | {v} |" for k, v in res.summary.items()]
     lines.append("")
+    if res.assumptions:  # e.g. a shipped family or rule replaced by a user folder (advisor.overrides)
+        lines += [f"- assumed: {_md_cell(a)}" for a in res.assumptions] + [""]
     pre = rows[: t.header_row]
     if pre:
         lines += ["Lines before the header (kept as read):", ""]
