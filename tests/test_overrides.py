@@ -244,3 +244,14 @@ def test_reports_the_api_and_the_workbench_carry_the_lines(user_folders, tmp_pat
     assert swapped.kind == "swap" and swapped.data["assumptions"][:3] == want
     ranked, problem = rank_alternates(shop, {"old": "NE555", "r": "10k", "c": "10n", "vcc": "5"})
     assert problem is None and ranked["assumptions"][:3] == want
+
+
+def test_catalog_check_lists_the_replacements(user_folders):
+    cat, rules = user_folders
+    run = retime("catalog", "check", "--catalog", str(cat), "--json")
+    got = json.loads(run.out)["overrides"]
+    assert [(o["kind"], o["id"], o["shipped_file"]) for o in got] == [
+        ("rule", "supply-above-abs-max", "rules/supply.yaml"), ("rule", "cmos-unused-inputs", "rules/interface.yaml"),
+        ("family", "NE555", "catalog/ne555.yaml")]
+    text = retime("catalog", "check", "--catalog", str(cat)).out
+    assert all(f"replaced: {line}\n" in text for line in expected_lines(cat, rules))

@@ -60,12 +60,18 @@ def run(args) -> int:
     for k in cat.ids():
         for name, n in provenance(cat.families[k]).items():
             prov[name] += n
+    from advisor.overrides import overrides_in_use
+
+    replaced = overrides_in_use(cat)  # shipped families and rules a user folder replaced
     if args.json:
         emit_json({"ok": not problems, "families": len(rows), "problems": problems,
-                   "memory_values": memory, "memory_by_family": by_family, "provenance": prov})
+                   "memory_values": memory, "memory_by_family": by_family, "provenance": prov,
+                   "overrides": [o.to_json() for o in replaced]})
     else:
         for line in problems:
             print(line)
+        for o in replaced:
+            print(f"replaced: {o.assumption()}")
         verdict = "ok" if not problems else f"{len(problems)} problem(s)"
         print(f"catalog: {len(rows)} families, {verdict}; {memory} values still from memory (unverified)"
               + (f" in {len(by_family)} families" if by_family else ""))
