@@ -53,7 +53,7 @@ def _check_one(model: Model, network: bool) -> None:
     if model.law == "ln-supply" and p["vcc"] <= 1.0:
         rec = model.family.supply.recommended
         raise InputError(
-            f"supply (--vcc, or --new-vcc for a new part) {p['vcc']:g} V: the {fid} law t = a·R·C·ln(VDD) gives no pulse at or below 1 V",
+            f"supply {p['vcc']:g} V: the {fid} law t = a·R·C·ln(VDD) gives no pulse at or below 1 V",
             got=p["vcc"], expected=f"a supply inside the {fid}'s range, {rec.min:g} to {rec.max:g} V",
         )
     if model.law != "timer-555":
