@@ -139,11 +139,15 @@ def counter_text(counter: dict, mode: str) -> str:
     return f"{where} ÷{n}"
 
 
-def tolerance_text(tol: dict) -> str:
+def tolerance_text(tol: dict, makers: list | None = None) -> str:
+    """The component tolerances, and what else the band holds: the part-to-part spread of
+    each maker's formula in it, and (more than one) the makers' different constants."""
     d = tol.get("defaulted", {})
     r = f"R ±{_pct(tol['r_tol'])}" + (" (assumed)" if d.get("r_tol") else "")
     c = f"C ±{_pct(tol['c_tol'])}" + (" (assumed)" if d.get("c_tol") else "")
-    return f"{r}, {c}; band also spans the makers' constants"
+    n = len([m for m in makers or [] if isinstance(m, dict)])
+    also = "the makers' constants and their part-to-part spread" if n > 1 else "the part-to-part spread"
+    return f"{r}, {c}; band also holds {also}"
 
 
 def findings_lines(findings: list[dict]) -> list[str]:
@@ -177,7 +181,7 @@ def render_text(j: dict) -> str:
     rows: list[tuple[str, str]] = [
         ("network", network_text(j["values"], mode)),
         ("supply", format_eng(j["values"]["vcc"], "V")),
-        ("tolerance", tolerance_text(j["tolerances"])),
+        ("tolerance", tolerance_text(j["tolerances"], j.get("makers"))),
     ]
     if j.get("maker_basis"):
         rows.append(("maker", maker_text(j)))
