@@ -19,8 +19,8 @@ What keeps it honest:
   file's name, size and modification time, and the *contents* of the source files that
   define the grammar and the rules vocabulary (:data:`GRAMMAR_FILES`), so a changed
   validator, law or context name is never answered from an old cache.
-- Fast on a hit. The pydantic models use ``defer_build`` and are rebuilt with
-  ``model_construct``: a cache hit never builds validation schemas.
+- Fast on a hit. The grammar classes are :mod:`advisor.record` records, rebuilt here
+  from checked values: a cache hit never imports pydantic nor builds a validation schema.
 - Written atomically (:func:`advisor.files.atomic_write`): a failed write leaves no
   temporary file; an unwritable cache folder simply means no cache.
 """
@@ -52,7 +52,7 @@ GRAMMAR_FILES = (
     "parts.py", "catalog.py", "cache.py", "files.py", "yamlload.py", "errors.py", "resources.py",
     "rules/model.py", "rules/context.py", "rules/loader.py", "rules/engine.py",
     "rules/safe_expr.py", "rules/template.py", "timing/laws.py", "timing/registry.py", "findings.py",
-    "overrides.py",
+    "overrides.py", "record.py", "makers.py",
 )
 
 _PACKAGE = Path(__file__).resolve().parent
@@ -177,7 +177,7 @@ def _write(folder: Path, path: Path, data: bytes) -> None:
 
 
 def to_data(obj: object) -> object:
-    """JSON-ready data from pydantic models, dataclasses, lists, dicts and scalars."""
+    """JSON-ready data from records (advisor.record), pydantic models, dataclasses, lists, dicts and scalars."""
     if obj is None or isinstance(obj, (str, bool, int)):
         return obj
     if isinstance(obj, float):
@@ -199,8 +199,8 @@ def to_data(obj: object) -> object:
 def rebuild(tp: object, data: object) -> Any:
     """An instance of type ``tp`` from :func:`to_data`'s output, type-checked on the way.
 
-    Supports pydantic models (rebuilt with ``model_construct``: no validation schema is
-    built), dataclasses, ``list``/``tuple``/``dict``/``Literal``/``Optional``/``Union``/
+    Supports records (:mod:`advisor.record`) and pydantic models (made the way
+    ``model_construct`` makes them: no validation schema is built), dataclasses, ``list``/``tuple``/``dict``/``Literal``/``Optional``/``Union``/
     ``Annotated`` and the scalars. Raises :class:`CacheMismatch` on any mismatch.
     """
     return _converter(tp)(data)
@@ -336,7 +336,7 @@ def _make_converter(tp: object) -> Callable[[object], object]:  # noqa: C901 - o
                 raise _fail("a mapping", v)
             return {k: value(x) for k, x in v.items()}
         return mapping
-    if isinstance(tp, type) and hasattr(tp, "model_fields") and hasattr(tp, "model_construct"):
+    if _is_model(tp):
         return _model_converter(tp)
     if isinstance(tp, type) and dataclasses.is_dataclass(tp):
         return _dataclass_converter(tp)
@@ -358,10 +358,11 @@ _MISSING = object()
 
 
 def _model_converter(cls: type) -> Callable[[object], object]:
-    """Rebuild a pydantic model without validation schemas: the instance is made the
-    way ``model_construct`` makes it (``__dict__`` and the fields-set), after every
-    value has been type-checked here."""
+    """Rebuild a record or a pydantic model without validation schemas: the instance is
+    made from its values and fields-set (a record's ``_record_make``; for pydantic the way
+    ``model_construct`` makes it), after every value has been type-checked here."""
     fields = cls.model_fields
+    make = getattr(cls, "_record_make", None)  # an advisor.record class: made from checked values
     plan: list[tuple[str, Callable[[object], object], bool, object]] = []
     names = frozenset(fields)
     new = object.__new__
@@ -391,6 +392,8 @@ def _model_converter(cls: type) -> Callable[[object], object]:
                     values[name] = d.copy() if isinstance(d, (list, dict, set)) else d
                 continue
             values[name] = conv(item)
+        if make is not None:
+            return make(values, set(v))
         obj = new(cls)
         setattr_(obj, "__dict__", values)
         setattr_(obj, "__pydantic_fields_set__", set(v))
@@ -401,7 +404,9 @@ def _model_converter(cls: type) -> Callable[[object], object]:
 
 
 def _is_model(tp: object) -> bool:
-    return isinstance(tp, type) and hasattr(tp, "model_fields") and hasattr(tp, "model_construct")
+    """A grammar record (advisor.record) or a pydantic model class."""
+    return isinstance(tp, type) and hasattr(tp, "model_fields") and (
+        hasattr(tp, "_record_make") or hasattr(tp, "model_construct"))
 
 
 def _dataclass_converter(cls: type) -> Callable[[object], object]:

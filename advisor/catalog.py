@@ -15,11 +15,10 @@ from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
 
-from pydantic import BaseModel
-
 from advisor.errors import InputError, UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.files import FileRefused
 from advisor.parts import RESERVED_SOURCES, SHARED_PIN_FUNCTIONS, Family, Lifecycle, Sourced
+from advisor.record import Record
 from advisor.resources import data_dirs
 from advisor.yamlload import YamlProblem, load_yaml_file
 
@@ -80,7 +79,7 @@ def family_problems(fam: Family, file: str) -> list[Problem]:
     def visit(obj: object, path: str) -> None:
         # Every field that names a source (``source``, ``retrigger_source``, ...) in every
         # part of the family, behaviour and lifecycle included.
-        if isinstance(obj, BaseModel):
+        if isinstance(obj, Record):
             for name in type(obj).model_fields:
                 value = getattr(obj, name)
                 where = f"{path}.{name}" if path else name
@@ -238,7 +237,7 @@ def value_problems(fam: Family, file: str) -> list[Problem]:
                 lo, hi = getattr(obj, a, None), getattr(obj, b, None)
                 if lo is not None and hi is not None and lo > hi:
                     problems.append(Problem(file, f"{path}.{a}", f"{a} {lo:g} is above {b} {hi:g}"))
-        if isinstance(obj, BaseModel):
+        if isinstance(obj, Record):
             for name in type(obj).model_fields:
                 conditions(getattr(obj, name), f"{path}.{name}" if path else name)
         elif isinstance(obj, list):
@@ -345,11 +344,11 @@ def count_memory(fam: Family) -> int:
         nonlocal n
         if isinstance(obj, Lifecycle):
             return  # a status statement is no value of the part: shown by 'show', not counted here
-        if isinstance(getattr(obj, "source", None), str) and isinstance(obj, BaseModel):
+        if isinstance(getattr(obj, "source", None), str) and isinstance(obj, Record):
             n += obj.source == "memory"
         if hasattr(obj, "retrigger_source"):
             n += obj.retrigger_source == "memory"
-        if isinstance(obj, BaseModel):
+        if isinstance(obj, Record):
             for name in type(obj).model_fields:
                 visit(getattr(obj, name))
         elif isinstance(obj, (list, tuple)):
@@ -401,7 +400,7 @@ def provenance(fam: Family) -> dict[str, int]:
     unrevised = of_kind - published
 
     def count(obj: object) -> None:
-        if isinstance(obj, BaseModel):
+        if isinstance(obj, Record):
             src = getattr(obj, "source", None)
             numeric = any(isinstance(getattr(obj, k, None), (int, float)) and not isinstance(getattr(obj, k, None), bool)
                           for k in ("value", "min", "max", "typ", "minus", "plus"))
@@ -494,7 +493,7 @@ def maker_problems(cat: "Catalog") -> list[Problem]:
         seen: set[str] = set()
 
         def visit(obj: object, path: str) -> None:
-            if isinstance(obj, BaseModel):
+            if isinstance(obj, Record):
                 m = getattr(obj, "maker", None)
                 if isinstance(m, str) and m not in known and (path, m) not in seen:
                     seen.add((path, m))

@@ -14,7 +14,7 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from pydantic import BaseModel, ConfigDict, Field, model_validator
+from advisor.record import Field, Record, model_validator
 
 from advisor.parts import Source
 
@@ -22,8 +22,8 @@ from advisor.parts import Source
 MAKERS_FILE = "makers.yaml"
 
 
-class _Frozen(BaseModel):
-    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)
+class _Frozen(Record):
+    """Frozen, unknown keys refused (advisor.record)."""
 
 
 class Maker(_Frozen):

@@ -1,4 +1,4 @@
-"""The catalog grammar: pydantic models for one part family (one YAML file).
+"""The catalog grammar: records for one part family (one YAML file), validated by pydantic.
 
 Models are frozen and refuse unknown keys, so a typo in a catalog file is an
 error with its location instead of a silently ignored value. Summarised for
@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from typing import Literal
 
-from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+from advisor.record import Field, Record, field_validator, model_validator
 
 Function = Literal["timer-555", "monostable", "monostable-astable", "programmable-timer"]
 Technology = Literal[
@@ -66,9 +66,9 @@ SHARED_PIN_FUNCTIONS = ("RESET", "CLEAR", "CONT")
 RESERVED_SOURCES = ("memory", "common-practice")
 
 
-class _Frozen(BaseModel):
-    # defer_build: a cached catalog (advisor.cache) never pays for schema building.
-    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True, allow_inf_nan=False)  # NaN/inf refused
+class _Frozen(Record):
+    # Frozen, unknown keys refused (advisor.record); pydantic validates only when YAML is read.
+    model_config = {"allow_inf_nan": False}  # NaN/inf refused
 
 
 class Source(_Frozen):

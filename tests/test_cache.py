@@ -100,7 +100,8 @@ def test_a_changed_validator_invalidates_the_cache(tmp_path, monkeypatch):
 
 
 def test_the_key_covers_the_grammar_and_vocabulary_sources():
-    for rel in ("parts.py", "catalog.py", "rules/model.py", "rules/context.py", "rules/loader.py", "cache.py"):
+    for rel in ("parts.py", "catalog.py", "rules/model.py", "rules/context.py", "rules/loader.py", "cache.py",
+                "record.py", "makers.py"):
         assert rel in cache.GRAMMAR_FILES
         assert (Path(cache.__file__).parent / rel).exists()
 

@@ -8,9 +8,8 @@ import re
 import pytest
 
 from advisor.catalog import load_catalog
-from pydantic import BaseModel
-
 from advisor.parts import RESERVED_SOURCES, Sourced
+from advisor.record import Record
 
 
 @pytest.fixture(scope="module")
@@ -21,7 +20,7 @@ def cat():
 def _sourced(obj, path=""):
     if isinstance(obj, Sourced):
         yield path, obj
-    if isinstance(obj, BaseModel):
+    if isinstance(obj, Record):
         for name in type(obj).model_fields:
             yield from _sourced(getattr(obj, name), f"{path}.{name}" if path else name)
     elif isinstance(obj, (list, tuple)):

@@ -1,4 +1,4 @@
-"""The rule grammar: pydantic models for one entry of ``rules/*.yaml``.
+"""The rule grammar: records for one entry of ``rules/*.yaml``, validated by pydantic.
 
 Frozen and strict about unknown keys, like the catalog grammar
 (:mod:`advisor.parts`), so a misspelt key is a located error, not a silently
@@ -10,14 +10,23 @@ from __future__ import annotations
 
 from typing import Literal, Union
 
-from pydantic import BaseModel, ConfigDict, Field, StrictBool, StrictFloat, StrictInt, StrictStr
+from advisor.record import Field, Record
 
 from advisor.parts import Function, Technology
 
 Severity = Literal["danger", "warning", "note"]
 Scope = Literal["part", "swap", "board"]  # board: advisor/board/facts.py
 Role = Literal["new", "old"]
-Scalar = Union[StrictBool, StrictInt, StrictFloat, StrictStr, None]
+#: A case value. Validated strictly (no "1" for 1, no 1 for true: :func:`_strict_names`);
+#: this plain form is what the start-up cache checks rebuilt values against.
+Scalar = Union[bool, int, float, str, None]
+
+
+def _strict_names() -> dict:
+    """``Scalar`` as pydantic validates it (pydantic's strict kinds exist only with pydantic)."""
+    from pydantic import StrictBool, StrictFloat, StrictInt, StrictStr
+
+    return {"Scalar": Union[StrictBool, StrictInt, StrictFloat, StrictStr, None]}
 #: What a firing means for a swap, mildest first (advisor.substitute.classify.CLASS_ORDER).
 SwapClass = Literal["drop-in-new-values", "rewire", "redesign", "unsuitable"]
 #: What a firing rules out: ``kept-values`` = the network it fires on is not kept
@@ -30,8 +39,8 @@ ReworkAction = Literal["remove", "adapter", "lift", "jumper", "tie", "isolate", 
 RULE_ID = r"^[a-z0-9][a-z0-9-]{1,62}$"
 
 
-class _Frozen(BaseModel):
-    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)
+class _Frozen(Record):
+    """Frozen, unknown keys refused (advisor.record)."""
 
 
 class AppliesTo(_Frozen):
@@ -58,6 +67,8 @@ class Cases(_Frozen):
     Names not given are missing (None). Every rule has at least one case that
     must fire and one that must not; one parametrised test runs them all.
     """
+
+    _record_validation_names = staticmethod(_strict_names)
 
     fire: list[dict[str, Scalar]] = Field(min_length=1)
     no_fire: list[dict[str, Scalar]] = Field(min_length=1)

@@ -26,7 +26,7 @@ try:
 except ImportError:
     pass
 t5 = time.perf_counter()
-print(f"pydantic+grammar {1e3*(t1-t0):.0f} ms, catalog {1e3*(t2-t1):.0f} ms, timing import {1e3*(t3-t2):.0f} ms, "
+print(f"grammar {1e3*(t1-t0):.0f} ms, catalog {1e3*(t2-t1):.0f} ms, timing import {1e3*(t3-t2):.0f} ms, "
       f"analyse {1e3*(t4-t3):.1f} ms, rules {1e3*(t5-t4):.0f} ms")
 """
 
