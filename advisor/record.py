@@ -302,12 +302,16 @@ def _translate(tp):
 
 def _from_model(cls: type, obj) -> Record:
     """The record for a validated pydantic instance (nested ones too)."""
-    values = {name: _plain(getattr(obj, name)) for name in cls._record_specs}
+    given = obj.__dict__  # a pydantic instance keeps its field values here, in field order
+    values = {name: _plain(given[name]) for name in cls._record_specs}
     return cls._record_make(values, set(obj.model_fields_set))
 
 
 def _plain(value):
-    record = _RECORDS.get(type(value))
+    kind = type(value)
+    if kind is str or kind is float or kind is int or kind is bool or value is None:
+        return value
+    record = _RECORDS.get(kind)
     if record is not None:
         return _from_model(record, value)
     if isinstance(value, list):
