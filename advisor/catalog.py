@@ -436,6 +436,12 @@ class Catalog:
     #: Shipped families a user folder replaced (advisor.overrides: listed in every answer).
     overrides: list["Override"] = field(default_factory=list)
 
+    def __repr__(self) -> str:
+        # Short on purpose: the full field dump of every family runs to hundreds of kB (a test
+        # framework that prints its arguments, a debugger, a log line).
+        return (f"Catalog({len(self.families)} families, {len(self.problems)} problems, "
+                f"{len(self.overrides)} overrides)")
+
     def ids(self) -> list[str]:
         return sorted(self.families, key=_natural)
 

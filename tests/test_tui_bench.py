@@ -122,6 +122,9 @@ FLAG_FIELD = {
     "--old-package": "old_package", "--new-package": "new_package", "--keep-within": "keep_within",
     "--report": "report", "--pot-in": "pot_in", "--maker": "maker", "--c-series": "c_series",
     "--pot-tol": "pot_tol", "--pot-end": "pot_end",
+    # The form's Maker names the part on the board (swap's --old-maker); a new part's maker
+    # comes from its part number on the form.
+    "--old-maker": "maker",
 }
 #: Flags that are not circuit inputs (output form, catalog location, check-only statistics).
 #: --divide (a counter timer's divide ratio) has no form field yet: the workbench times counter

@@ -64,7 +64,8 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("c_tol", "C tolerance", "fraction", "blank = 10%", "capacitor tolerance"),
     FieldSpec("series", "Series", "series", "blank = E24", "E-series for new resistor values (E3 … E192)"),
     FieldSpec("maker", "Maker", "text", "blank = from the number",
-              "use this maker's published constant (e.g. NXP, TI); blank: the maker the part number names"),
+              "the maker of the part on the board (e.g. NXP, TI), whose published constant is used; "
+              "blank: the maker its part number names"),
     FieldSpec("keep_within", "Keep within", "fraction", "blank = old band",
               "keep C and change one resistor when that lands within this fraction of the kept time (swap)"),
     FieldSpec("old_package", "Old package", "text", "blank = its first", "the fitted part's package, e.g. DIP-14"),
@@ -108,7 +109,7 @@ _FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "r
                "measured-width": "Measured", "measured-high": "Measured", "measured-low": "Measured",
                "measured-period": "Measured", "measured-from": "Capture file", "target-width": "Target",
                "target-period": "Target", "target-freq": "Target", "r-tol": "R tolerance", "c-tol": "C tolerance",
-               "series": "Series", "maker": "Maker", "cont": "CONT driven", "keep-within": "Keep within",
+               "series": "Series", "maker": "Maker", "old-maker": "Maker", "cont": "CONT driven", "keep-within": "Keep within",
                "old-package": "Old package", "new-package": "New package", "measured-quantity": "Measured is",
                "trigger-channel": "Trigger ch.", "output-channel": "Output ch.", "report": "Report file"}
 
