@@ -112,6 +112,8 @@ class CheckAnswer(_WithFindings):
     """``retime check --json``: the timing of one circuit with its findings."""
 
     part: str
+    #: The part number as typed (MM74HC123AN), when it says more than the family id; else null.
+    part_number: Optional[str] = None
     mode: Literal["mono", "astable"]
     law: str
     values: Network
@@ -141,6 +143,8 @@ class DesignAnswer(_WithFindings):
     """``retime design --json``: candidates best first; the best one's timing repeated."""
 
     part: str
+    #: The part number as typed (MM74HC123AN), when it says more than the family id; else null.
+    part_number: Optional[str] = None
     mode: Literal["mono", "astable"]
     target: dict[str, Any]
     series: str
@@ -165,6 +169,8 @@ class DesignAnswer(_WithFindings):
 
 class Side(_Answer):
     family: str
+    #: The part number as typed (MM74HC123AN), when it says more than the family id; else null.
+    part_number: Optional[str] = None
     vcc: Optional[float] = None
     mode: str
     values: Network

@@ -97,6 +97,9 @@ class Circuit:
     #: when it names none. ``maker_basis`` says how: "part-number prefix" or "--maker".
     makers: tuple[str, ...] = ()
     maker_basis: str | None = None
+    #: The part number as the user gave it (SN74LS221N, MM74HC123AN), when it is not the bare
+    #: family id: every answer repeats it beside the family it was read as.
+    part_number: str | None = field(default=None, compare=False)
     #: How unusual input forms were read (an old MFD marking, a capacitor code) and the
     #: marks kept after values (tolerance letter, rating): shown in every answer's assumptions.
     notes: tuple[str, ...] = field(default=(), compare=False)

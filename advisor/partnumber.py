@@ -78,6 +78,13 @@ class _Index:
     choice_owner: list[dict[str, bool]] = field(default_factory=list)
 
 
+def as_typed(typed: str | None, family_id: str) -> str | None:
+    """The part number as the user gave it, when it says more than the family id
+    (``SN74LS221N`` for 74LS221); None for the bare id in any case."""
+    text = (typed or "").strip()
+    return text if text and text.upper() != family_id.upper() else None
+
+
 def clean(text: str) -> str:
     """Upper-case and drop spaces and punctuation (``sn74hc221n`` -> ``SN74HC221N``)."""
     return _STRIP.sub("", text.strip().upper())

@@ -135,6 +135,17 @@ CLASS_WORDS = {
 }
 
 
+def part_words(answer: Any, family_key: str = "part") -> str:
+    """A part as the user named it and as it was read: ``MM74HC123AN (74HC123, Fairchild)``;
+    the bare family id when nothing was typed beyond it (a check or design answer's ``part``,
+    a swap side's ``family``; ``part_number`` and ``maker`` from the same answer)."""
+    family = str(_get(answer, family_key) or "?")
+    typed, maker = _get(answer, "part_number"), _get(answer, "maker")
+    if not typed:
+        return family if not maker else f"{family} ({maker})"
+    return f"{typed} ({family}" + (f", {maker})" if maker else ")")
+
+
 def class_words(cls: Any) -> str:
     return CLASS_WORDS.get(str(cls), "")
 

@@ -234,7 +234,9 @@ def render_text(j: dict) -> str:
     for a in j.get("assumptions", []):
         rows.append(("assumed", a))
     width = max(len(k) for k, _ in rows)
-    lines = [f"{j['part']} {kind}  (law {j['law']})"]
+    from advisor.presentation import part_words
+
+    lines = [f"{part_words(j)} {kind}  (law {j['law']})"]
     lines += [f"  {k:<{width}}  {v}" for k, v in rows]
     if j["findings"]:
         lines.append("findings")

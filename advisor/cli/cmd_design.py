@@ -85,7 +85,9 @@ def render_text(j: dict) -> str:
 
     tgt = j["target"]
     unit = "Hz" if tgt["kind"] == "freq" else "s"
-    head = f"{j['part']} {'monostable' if j['mode'] == 'mono' else 'astable'}: {tgt['kind']} {format_eng(tgt['value'], unit)}"
+    from advisor.presentation import part_words
+
+    head = f"{part_words(j)} {'monostable' if j['mode'] == 'mono' else 'astable'}: {tgt['kind']} {format_eng(tgt['value'], unit)}"
     if tgt.get("duty") is not None:
         head += f", duty {_pct(tgt['duty'])}"
     if tgt.get("range"):

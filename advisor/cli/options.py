@@ -130,6 +130,8 @@ def quantity_from_args(args: argparse.Namespace, flag: str, kind: str) -> float 
 
 def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
     """Build the validated circuit from parsed flags (raises on bad values)."""
+    from advisor.partnumber import as_typed
+
     notes: list[str] = []
     v = {flag: _get(args, flag, kind, notes) for flag, kind, _ in _FLAGS if hasattr(args, flag.lstrip("-").replace("-", "_"))}
     mode = getattr(args, "mode", None)
@@ -187,6 +189,7 @@ def circuit_from_args(args: argparse.Namespace, part: str) -> Circuit:
         cont=v.get("--cont"),
         divide=count_from_args(args) if hasattr(args, "divide") else None,
         **_makers_from_args(args),
+        part_number=as_typed(getattr(args, "part", None) or getattr(args, "old", None), part),
         notes=tuple(notes),
     )
 

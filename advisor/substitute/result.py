@@ -33,9 +33,11 @@ class PartSide:
     trigger: dict | None = None  # this side's trigger-rate verdict, when a trigger period was given
     maker: str | None = None  # the maker whose constant this side's timing uses (None: unknown)
     maker_basis: str | None = None
+    part_number: str | None = None  # as the user typed it, when not the bare family id
 
     def to_json(self) -> dict:
         return {
+            "part_number": self.part_number,
             "maker": self.maker,
             "maker_basis": self.maker_basis,
             "trigger": dict(self.trigger) if self.trigger else None,

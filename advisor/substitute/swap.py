@@ -86,7 +86,8 @@ def _duty_error(kept: dict, timing: dict) -> float:
 def _side(fam: Family, t, vcc: float | None) -> PartSide:
     trig = t.trigger.to_json() if t.trigger is not None else None
     return PartSide(fam.id, fam.title, vcc, dict(t.values), {k: dict(v) for k, v in t.timing.items()}, t.mode,
-                    fam.technology, fam.status, trig, getattr(t, "maker", None), getattr(t, "maker_basis", None))
+                    fam.technology, fam.status, trig, getattr(t, "maker", None), getattr(t, "maker_basis", None),
+                    getattr(t, "part_number", None))
 
 
 def new_circuit_for(circuit: Circuit, new: Family, vcc: float | None, mode: str,
@@ -160,7 +161,10 @@ def swap(
     from advisor.timing.model import check_divide
 
     check_divide(new, new_divide, "--new-divide")
-    base = new_circuit_for(circuit, new, vcc, mode, new_divide).with_(makers=new_makers, maker_basis=new_basis)
+    from advisor.partnumber import as_typed
+
+    base = new_circuit_for(circuit, new, vcc, mode, new_divide).with_(makers=new_makers, maker_basis=new_basis,
+                                                                       part_number=as_typed(new_query, new.id))
     if circuit.divide is not None and base.divide is None and new.timing.law == "counter":
         assumptions.append(f"--divide {circuit.divide} is not a ratio the {new.id} can select: the design "
                            "chooses one (give --new-divide N)")

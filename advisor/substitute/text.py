@@ -68,7 +68,9 @@ def _kept(j: dict) -> str:
 
 def render_swap(j: dict, *, title: str | None = None, findings: bool = True) -> str:
     """One swap as a compact block."""
-    lines = [title or f"{j['old']['family']} → {j['new']['family']}    class: {j['class']}"]
+    from advisor.presentation import part_words
+
+    lines = [title or f"{part_words(j['old'], 'family')} → {part_words(j['new'], 'family')}    class: {j['class']}"]
     if title:
         lines.append(f"  class: {j['class']}")
     lines.append(f"  keep {_kept(j)}")

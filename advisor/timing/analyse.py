@@ -87,6 +87,7 @@ def analyse(family: Family, circuit: Circuit, *, samples: int | None = None, see
         assumptions=list(circuit.notes) + list(model.assumptions),
         distribution=dist, capture=circuit.measured.capture if circuit.measured is not None else None,
         maker=model.maker, maker_basis=model.maker_basis, makers=list(model.alternatives),
+        part_number=circuit.part_number,
     )
 
 

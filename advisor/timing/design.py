@@ -177,7 +177,8 @@ def design(
         tjson["range"] = {"min": window[0], "max": window[1]}
     assumptions += [a for a in probe.assumptions if a not in assumptions and "part number names" in a]
     return DesignResult(family.id, mode, tjson, series, unique[:limit], findings, assumptions,
-                        tolerances(circuit), maker=probe.maker, maker_basis=probe.maker_basis, c_series=c_series)
+                        tolerances(circuit), maker=probe.maker, maker_basis=probe.maker_basis, c_series=c_series,
+                        part_number=circuit.part_number)
 
 
 def _counter_design(family: Family, circuit: Circuit, **kw) -> DesignResult:
@@ -219,7 +220,8 @@ def _counter_design(family: Family, circuit: Circuit, **kw) -> DesignResult:
         f"{', '.join(str(n) for n in divide_choices(family))} whose network sits inside the part's limits and its "
         f"formula's range; give --divide N to design for another"]
     return DesignResult(first.part, first.mode, first.target, first.series, cands, first.findings, notes,
-                        first.tolerances, maker=first.maker, maker_basis=first.maker_basis, c_series=first.c_series)
+                        first.tolerances, maker=first.maker, maker_basis=first.maker_basis, c_series=first.c_series,
+                        part_number=first.part_number)
 
 
 def _covers(cd: Candidate, window) -> bool:

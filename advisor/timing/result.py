@@ -35,10 +35,12 @@ class TimingResult:
     maker: str | None = None  # the maker whose constant the nominal uses; None when unknown
     maker_basis: str | None = None  # "part-number prefix", "--maker", "unknown: band spans makers", ...
     makers: list = field(default_factory=list)  # each maker's formula in the band (AltParams), nominal first
+    part_number: str | None = None  # as the user typed it (Circuit.part_number)
 
     def to_json(self) -> dict:
         out = {
             "part": self.part,
+            "part_number": self.part_number,
             "maker": self.maker,
             "maker_basis": self.maker_basis,
             "makers": [_json(m) for m in self.makers],
@@ -109,6 +111,7 @@ class DesignResult:
     maker: str | None = None
     maker_basis: str | None = None
     c_series: str = "E6"  # capacitor series searched when C may change
+    part_number: str | None = None  # as the user typed it (Circuit.part_number)
 
     @property
     def best(self) -> Candidate | None:
@@ -118,6 +121,7 @@ class DesignResult:
         best = self.best
         return {
             "part": self.part,
+            "part_number": self.part_number,
             "maker": self.maker,
             "maker_basis": self.maker_basis,
             "mode": self.mode,
