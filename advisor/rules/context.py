@@ -151,6 +151,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     # package
     _v("package", "text", "", "default package name"),
     _v("pin_count", "number", "", "pins of the default package"),
+    _v("vref_pin", "number", "", "pin of a reference output the timing resistor returns to (VREF), default package; unknown when none"),
 )
 
 #: Names at the top level of the context (swap comparisons).
@@ -481,6 +482,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "output_sink": drive_snk,
         "package": pkg.name if pkg else None,
         "pin_count": float(max((p.pin for p in pkg.pins), default=0)) if pkg else None,
+        "vref_pin": next((float(p.pin) for p in pkg.pins if p.function == "VREF"), None) if pkg else None,
     }
     return out
 
