@@ -328,9 +328,13 @@ class Interface(_Frozen):
 
     ``inputs``: ``ttl`` (VIH 2.0 V, VIL 0.8 V) or ``cmos`` (fractions of VCC).
     ``vih``/``vil`` are either absolute (V) with ``at_vcc`` or ``fraction`` of VCC.
+    ``outputs``: ``push-pull`` (drives both levels: TTL totem pole, CMOS), ``open-collector``
+    (sinks only: each used output needs a pull-up to VCC, NE558) or ``transistor`` (a
+    floating output transistor whose collector and emitter are both pins, LM3905).
     """
 
     inputs: Literal["ttl", "cmos"]
+    outputs: Literal["push-pull", "open-collector", "transistor"] = "push-pull"
     vih: Sourced | None = None
     vih_fraction: Sourced | None = None
     vil: Sourced | None = None

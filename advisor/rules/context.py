@@ -151,6 +151,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     # package
     _v("package", "text", "", "default package name"),
     _v("pin_count", "number", "", "pins of the default package"),
+    _v("output_kind", "text", "", "push-pull, open-collector (needs a pull-up to VCC) or transistor (collector and emitter on pins)"),
     _v("vref_pin", "number", "", "pin of a reference output the timing resistor returns to (VREF), default package; unknown when none"),
 )
 
@@ -482,6 +483,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "output_sink": drive_snk,
         "package": pkg.name if pkg else None,
         "pin_count": float(max((p.pin for p in pkg.pins), default=0)) if pkg else None,
+        "output_kind": itf.outputs,
         "vref_pin": next((float(p.pin) for p in pkg.pins if p.function == "VREF"), None) if pkg else None,
     }
     return out
