@@ -6,24 +6,7 @@ produced: if a test fails, re-read the named datasheet before touching the numbe
 
 from __future__ import annotations
 
-from pathlib import Path
-
 import pytest
-
-from advisor.catalog import load_dirs
-
-CATALOG = Path(__file__).resolve().parents[1] / "catalog"
-
-# advisor/catalog.py probes instances with hasattr(obj, "model_fields"), which pydantic 2.11
-# deprecates; that is the loader's business, not these data checks, so only that warning is let by.
-pytestmark = pytest.mark.filterwarnings("ignore:Accessing the 'model_fields' attribute on the instance")
-
-
-@pytest.fixture(scope="module")
-def cat():
-    c = load_dirs([CATALOG])
-    assert not c.problems, [str(p) for p in c.problems]
-    return c
 
 
 def values(fam, name, vcc=None, c=None):

@@ -17,16 +17,9 @@ from advisor.substitute.pinmap import map_pins
 from advisor.timing import analyse
 from support.minicat import family_dict, write_family
 
-CATALOG = Path(__file__).resolve().parents[1] / "catalog"
-
-pytestmark = pytest.mark.filterwarnings("ignore:Accessing the 'model_fields' attribute on the instance")
 
 
-@pytest.fixture(scope="module")
-def cat():
-    c = load_dirs([CATALOG])
-    assert not c.problems, [str(p) for p in c.problems]
-    return c
+
 
 
 # --- NE558 (Philips NE558 product data, 2003 Feb 14) ---------------------------------------
