@@ -146,11 +146,13 @@ def choose(family: Family, alts: list[Alternative], makers: tuple[str, ...], bas
             raise InputError(
                 f"--maker {'/'.join(makers)}: no constant for the {family.id} from that maker in the catalog",
                 got="/".join(makers), expected=f"one of the makers with a published constant: {known}")
-        note = (f"the part number names {'/'.join(makers)}, who published no constant for the {family.id} in the "
-                "catalog; the band spans the makers' figures")
+        # Only worth saying when the family's formulas are tied to makers at all: the NE555's
+        # sheets give one formula that no maker tag claims, so its prefix changes nothing.
+        notes = [f"the part number names {'/'.join(makers)}, whose own constant for the {family.id} is not in "
+                 f"the catalog; the band spans the makers' figures ({', '.join(dict.fromkeys(published))})"] if published else []
         if len(alts) == 1:
-            return MakerChoice(alts, alts[0].maker, "only published formula", [note])
-        return MakerChoice(alts, None, "unknown: band spans makers", [note])
+            return MakerChoice(alts, alts[0].maker, "only published formula", notes)
+        return MakerChoice(alts, None, "unknown: band spans makers", notes)
     if len(alts) == 1:
         return MakerChoice(alts, alts[0].maker, "only published formula")
     return MakerChoice(alts, None, "unknown: band spans makers")
