@@ -395,9 +395,9 @@ def provenance(fam: Family) -> dict[str, int]:
     """
     out = {"values": 0, "published": 0, "memory": 0, "common_practice": 0, "constants_from_memory": 0,
            "unrevised": 0}
-    of_kind = {s.id for s in fam.sources if s.document and s.kind in PUBLISHED_KINDS}
-    published = {i for i in of_kind if names_revision(next(s.document for s in fam.sources if s.id == i))}
-    unrevised = of_kind - published
+    of_kind = [s for s in fam.sources if s.document and s.kind in PUBLISHED_KINDS]
+    published = {s.id for s in of_kind if names_revision(s.document)}
+    unrevised = {s.id for s in of_kind} - published
 
     def count(obj: object) -> None:
         if isinstance(obj, Record):
