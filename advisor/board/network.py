@@ -7,6 +7,10 @@ package, :mod:`advisor.parts`); the circuits are the datasheets' standard ones:
   RCEXT, the timing resistor from RCEXT to the supply (TI SDLS043 figure 1 for the
   '123; onsemi MC14538B "Rx and Cx" figure; Fairchild DS006538 for the 74121, whose
   internal resistor is used when RINT is tied to VCC and no resistor reaches RCEXT);
+- one-shots with one timing pin per section (no CEXT pin): C from it to ground, R from
+  the supply to it (Philips NE558, 2003 Feb 14: each section charges its capacitor
+  through R from VCC) or from VREF where the part has one (National LM3905, February
+  1995: the timing resistor returns to the reference);
 - 555 monostable: THRES and DIS joined, R from the supply to them, C from them to
   ground, TRIG driven; 555 astable: THRES and TRIG joined with C to ground, RB from
   DIS to them, RA from the supply to DIS (TI SLFS022 figures 9 and 12).
@@ -349,15 +353,17 @@ def _trace_one_shot(tr: Tracer, t: Timer, c: Channel, pins: dict, by_fn: dict) -
     ref = t.part.ref
     rc = pins.get("RCEXT") or pins.get("REXT")
     cx = pins.get("CEXT")
-    if rc is None or cx is None:
-        c.problems.append(Problem(f"{c.label}: the catalog pinout has no RCEXT/CEXT pair", c.where))
+    if rc is None:
+        c.problems.append(Problem(f"{c.label}: the catalog pinout has no timing pin (RCEXT or REXT)", c.where))
+        return
+    if cx is None:
+        _trace_single_pin(tr, t, c, pins, rc)
         return
     rc_net, cx_net = tr.net(ref, str(rc.pin)), tr.net(ref, str(cx.pin))
     cval, crefs = tr.capacitance(rc_net, cx_net)
     if cval == 0.0 and cx_net == c.gnd_net:
         cval, crefs, _ = tr.capacitance_to_ground(rc_net)
-    q_open = all(tr.is_open(tr.net(ref, str(p.pin)), (ref, str(p.pin))) for f in ("Q", "QN") for p in
-                 [pins[f]] if f in pins)
+    q_open = _outputs_open(tr, ref, pins)
     if cval == 0.0 and tr.is_open(rc_net, (ref, str(rc.pin))) and q_open:
         c.unused = True
         return
@@ -382,6 +388,51 @@ def _trace_one_shot(tr: Tracer, t: Timer, c: Channel, pins: dict, by_fn: dict) -
     else:
         c.problems.append(Problem(f"{c.label}: no timing resistor from {_pin_label(rc)} to the supply "
                                   f"({c.vcc_net}){_why_open(tr, rc_net, (ref, str(rc.pin)))}", where, "unresolved"))
+    c.mode = "mono"
+
+
+def _outputs_open(tr: Tracer, ref: str, pins: dict) -> bool:
+    """Whether every output pin of the channel (Q, Q̄, or a bare transistor's collector and emitter) is open."""
+    outs = [pins[f] for f in ("Q", "QN", "OUT_C", "OUT_E") if f in pins]
+    return all(tr.is_open(tr.net(ref, str(p.pin)), (ref, str(p.pin))) for p in outs)
+
+
+def _trace_single_pin(tr: Tracer, t: Timer, c: Channel, pins: dict, rc) -> None:
+    """One timing pin per section: C from it to ground, R from the supply (or VREF) to it.
+
+    The NE558's TIMING pins (Philips NE558 product data, 2003 Feb 14) and the
+    LM3905's R/C pin, whose resistor returns to the reference output VREF, not to V+
+    (National LM122/LM322/LM3905, February 1995, pin function description): a
+    resistor to V+ on such a part charges towards another voltage, so the law does
+    not hold and the channel is not traced.
+    """
+    ref = t.part.ref
+    own = (ref, str(rc.pin))
+    rc_net = tr.net(ref, str(rc.pin))
+    cval, crefs, _ = tr.capacitance_to_ground(rc_net)
+    q_open = _outputs_open(tr, ref, pins)
+    if cval == 0.0 and tr.is_open(rc_net, own) and q_open:
+        c.unused = True
+        return
+    where = Where(c.where.file, c.where.sheet, ref)
+    if cval == 0.0:
+        c.problems.append(Problem(f"{c.label}: no capacitor found from {_pin_label(rc)} to ground (net {rc_net})"
+                                  f"{_why_open(tr, rc_net, own)}", where, "unresolved"))
+    else:
+        c.c, c.parts["c"] = cval, crefs
+    vref = pins.get("VREF")
+    top_net = tr.net(ref, str(vref.pin)) if vref is not None else c.vcc_net
+    top = _pin_label(vref) if vref is not None else f"the supply ({c.vcc_net})"
+    chain = _one_chain(tr, c, tr.resistance(rc_net, top_net), f"{_pin_label(rc)} to {top}")
+    if chain is not None:
+        _set_r(c, chain, "r")
+    elif vref is not None and tr.resistance(rc_net, c.vcc_net):
+        c.problems.append(Problem(f"{c.label}: the timing resistor returns to the supply ({c.vcc_net}), not to "
+                                  f"{_pin_label(vref)}: {t.family.id} times from its reference, so the law does not "
+                                  "hold for this network", where, "network"))
+    else:
+        c.problems.append(Problem(f"{c.label}: no timing resistor from {_pin_label(rc)} to {top}"
+                                  f"{_why_open(tr, rc_net, own)}", where, "unresolved"))
     c.mode = "mono"
 
 
