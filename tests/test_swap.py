@@ -191,3 +191,19 @@ def test_json_keys_per_design_guide(cat):
     assert j["trigger"]["period"] == pytest.approx(1e-3)
     for f in j["findings"]:
         assert {"rule", "severity", "message", "fix", "source"} <= set(f)
+
+
+def test_one_shot_to_a_bare_output_transistor_gets_a_pull_up_on_the_collector(cat):
+    # LM3905: one floating output transistor; with LOGIC open or high it is off during the
+    # timing period, so its collector with a pull-up is high during the pulse, like Q
+    # (National LM122/LM322/LM3905, February 1995, pin function description).
+    res = swap(cat, "74LS221", "LM3905", mono(5, 100e3, 10e-6), new_vcc=5)
+    new = cat.get("LM3905")
+    collector = next(p.pin for p in new.packages[0].pins if p.function == "OUT_C")
+    q = next(lk for lk in res.pin_map.links if lk.function == "Q")
+    assert q.new_pin == collector and "pull-up" in q.note
+    pulls = [a for a in res.pin_map.additions if a.role.startswith("pull")]
+    assert [(a.role, a.between[1]) for a in pulls] == [("pull-up", "VCC")]  # one transistor: never both
+    qn = next(u for u in res.pin_map.unmatched if u.function == "QN" and u.channel == 1)
+    assert "inverter" in qn.what and "not both" in qn.what
+    assert any(s.action == "add" and "pull-up" in s.detail for s in res.rework)

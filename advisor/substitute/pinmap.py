@@ -44,8 +44,10 @@ SHARED_CONTROLS = SHARED_PIN_FUNCTIONS
 RELATED: dict[str, tuple[str, ...]] = {
     "TRIG": ("TRIG_FALL",),
     "TRIG_FALL": ("TRIG",),
-    "OUT": ("Q",),
-    "Q": ("OUT", "Q_TAP"),
+    "OUT": ("Q", "OUT_C"),
+    "Q": ("OUT", "Q_TAP", "OUT_C"),
+    # a bare output transistor (LM3905): its collector with a pull-up gives Q while the
+    # LOGIC input is open or high (National, February 1995, pin function description)
     # a counter timer's stage outputs (74HC4060): the note on each pin names its divide ratio
     "Q_TAP": ("Q",),
     "RESET": ("CLEAR", "MASTER_RESET"),
@@ -53,6 +55,11 @@ RELATED: dict[str, tuple[str, ...]] = {
     "MASTER_RESET": ("CLEAR", "RESET"),
     "REXT": ("RCEXT",),
     "RCEXT": ("REXT",),
+}
+
+#: What a bare output transistor's pin needs to stand in for a logic output.
+_BARE_TRANSISTOR = {
+    "OUT_C": ("output transistor's collector: fit a pull-up from it to the supply", "VCC"),
 }
 
 #: Edges that reach each other's inputs: a 555 TRIG (level-low) answers a falling edge.
@@ -593,6 +600,15 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
                 cand = new_pins(rel, new_ch)
                 if cand:
                     note = f"{p.function} on {old.id} becomes {rel} on {new.id}: same job, check the datasheet"
+                    if rel in _BARE_TRANSISTOR:
+                        what, other_end = _BARE_TRANSISTOR[rel]
+                        note = (f"{p.function} on {old.id} becomes the {new.id} {what}; its LOGIC input (open "
+                                "or high here) sets which level the pulse is: check the datasheet")
+                        additions.append(Addition(
+                            "resistor", "pull-up" if other_end == "VCC" else "pull-down",
+                            (f"pin {cand[0].pin} ({cand[0].name})", other_end), new_ch,
+                            f"if the board uses {p.name}: {new.id} drives it from a bare transistor (size the "
+                            "resistor for the load; a few kΩ into a logic input is common practice)"))
                     if rel == "Q_TAP":  # one pin per divide ratio
                         note = (f"{p.function} on {old.id} goes to the {new.id} counter output "
                                 + (f"for /{divide}" if divide is not None and (cand[0].note or "").strip() == f"/{divide}"
@@ -609,7 +625,11 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
         what = {
             "clear": f"{new.id} has no clear/reset: if the board drives {p.name} to end pulses early, "
                      "the circuit must change",
-            "output": f"{new.id} has no {p.function} output: take the other output (through an inverter) "
+            "output": (f"{new.id} has one output transistor: if the board uses {p.name}, feed it through an "
+                       "inverter from the collector output, or take the emitter output with a pull-down to ground "
+                       "instead of the collector's pull-up (not both: one transistor drives both pins)")
+                      if new_pins("OUT_C", new_ch) else
+                      f"{new.id} has no {p.function} output: take the other output (through an inverter) "
                       "if the board uses it",
             "network": f"{new.id} has no {p.function} pin: leave its net out",
         }.get(k, f"no {p.function} pin on {new.id}")
