@@ -17,7 +17,7 @@ from pathlib import Path
 
 from advisor.errors import InputError, UnknownPartError, key_path as _loc, raise_first_problem, short_repr as _short
 from advisor.files import FileRefused
-from advisor.parts import RESERVED_SOURCES, SHARED_PIN_FUNCTIONS, Family, Lifecycle, Sourced
+from advisor.parts import RESERVED_SOURCES, SHARED_PIN_FUNCTIONS, TIE_USES, Family, Lifecycle, Sourced
 from advisor.record import Record
 from advisor.resources import data_dirs
 from advisor.yamlload import YamlProblem, load_yaml_file
@@ -279,6 +279,18 @@ def package_problems(fam: Family, index: int, file: str) -> list[Problem]:
     for need in ("VCC", "GND"):
         if not any(p.function == need for p in pkg.pins):
             problems.append(Problem(file, f"{where}.pins", f"no {need} pin; expected one"))
+    source_ids = {s.id for s in fam.sources}
+    ratios = {f"/{n}" for n in (fam.timing.counter.divide_by if fam.timing.counter is not None else [])}
+    for p in pkg.pins:
+        if not p.tie:
+            continue
+        bad = sorted(k for k in p.tie if k not in TIE_USES and k not in ratios)
+        if bad:
+            problems.append(Problem(file, f"{where}.pins", f"pin {p.pin} tie keys {bad}; expected "
+                                    f"{', '.join(TIE_USES)} or a divide ratio of timing.counter ({', '.join(sorted(ratios)) or 'none'})"))
+        if p.tie_source not in source_ids:
+            problems.append(Problem(file, f"{where}.pins", f"pin {p.pin} tie_source {p.tie_source!r}; expected the id "
+                                    "of a listed source (the function or selection table the levels come from)"))
     per_channel: dict[int, list[str]] = {}
     shared: dict[str, int] = {}
     for p in pkg.pins:

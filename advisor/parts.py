@@ -388,12 +388,29 @@ class Lifecycle(_Frozen):
         return _check_date(v)
 
 
+#: Keys of a pin's ``tie``: every use, the circuit's mode, or a counter's divide ratio ("/1024").
+TIE_USES = ("any", "mono", "astable")
+
+
 class Pin(_Frozen):
     pin: int
     name: str  # the maker's label, kept for display
     function: PinFunction
     channel: int | None = None  # 1-based section number; None for shared pins
     note: str | None = None
+    #: A control input the old part may lack (a 4047's ASTABLE, a 4541's A/B/MODE): the
+    #: level it is tied to, by use (:data:`TIE_USES` or "/N"), read from the maker's
+    #: function or selection table named by ``tie_source``; ``tie_why`` says what it sets.
+    tie: dict[str, Literal["VCC", "GND"]] = Field(default_factory=dict)
+    tie_why: str | None = None
+    tie_source: str | None = None
+
+    def tie_level(self, mode: str | None, divide: int | None) -> str | None:
+        """The level for this use: the divide ratio's entry first, then the mode's, then ``any``."""
+        for key in (f"/{divide}" if divide is not None else None, mode, "any"):
+            if key is not None and key in self.tie:
+                return self.tie[key]
+        return None
 
 
 class Package(_Frozen):

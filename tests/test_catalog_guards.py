@@ -90,3 +90,13 @@ def test_long_values_are_quoted_as_a_bounded_excerpt():
 
     deep = [[list(range(10**5))] * 1000] * 1000  # 10^11 items if written out
     assert len(short_repr(deep)) <= 60
+
+
+def test_a_pin_tie_names_its_use_and_a_listed_source():
+    def change(d):
+        pin = d["packages"][0]["pins"][3]  # NE555 pin 4, RESET
+        pin.update({"tie": {"astable": "VCC", "sometimes": "GND"}, "tie_source": "no-such-sheet"})
+    got = problems_of(change)
+    assert any("packages[0].pins" in g and "sometimes" in g for g in got), got
+    assert any("tie_source" in g and "no-such-sheet" in g for g in got), got
+    assert all("catalog/x.yaml" in g for g in got)

@@ -202,8 +202,59 @@ def test_one_shot_to_a_bare_output_transistor_gets_a_pull_up_on_the_collector(ca
     collector = next(p.pin for p in new.packages[0].pins if p.function == "OUT_C")
     q = next(lk for lk in res.pin_map.links if lk.function == "Q")
     assert q.new_pin == collector and "pull-up" in q.note
-    pulls = [a for a in res.pin_map.additions if a.role.startswith("pull")]
-    assert [(a.role, a.between[1]) for a in pulls] == [("pull-up", "VCC")]  # one transistor: never both
+    assert "bare-transistor-output-needs-a-resistor" in {f.rule for f in res.findings}
     qn = next(u for u in res.pin_map.unmatched if u.function == "QN" and u.channel == 1)
     assert "inverter" in qn.what and "not both" in qn.what
-    assert any(s.action == "add" and "pull-up" in s.detail for s in res.rework)
+    assert any(s.action == "add" and "pull-up" in s.detail and "never both" in s.detail for s in res.rework)
+
+
+def _ties(res) -> dict[int, str]:
+    return {t.new_pin: t.level for t in res.pin_map.ties}
+
+
+def test_4047_control_inputs_are_tied_for_the_use(cat):
+    # Philips HEF4047B (January 1995): a HIGH on ASTABLE enables astable operation (or a LOW on
+    # ASTABLE-bar); retriggering takes one pulse on RETRIGGER and +TRIGGER. Pins: 4 ASTABLE-bar,
+    # 5 ASTABLE, 6 -TRIGGER, 8 +TRIGGER, 9 EXTERNAL RESET, 12 RETRIGGER (catalog/cd4047b.yaml).
+    mono_ = swap(cat, "74HC123", "CD4047B", mono(5, 100e3, 10e-9), new_vcc=5)
+    assert {4: "VCC", 5: "GND", 8: "VCC", 12: "GND"}.items() <= _ties(mono_).items()
+    astable = swap(cat, "NE555", "CD4047B", Circuit(part="", mode="astable", vcc=5, ra=10e3, rb=100e3, c=10e-9), new_vcc=5)
+    ties = _ties(astable)
+    assert {4: "VCC", 5: "VCC", 6: "VCC", 8: "GND", 12: "GND"}.items() <= ties.items()
+    # the 555's TRIG sits on the timing capacitor in the astable (TI SLFS022 figure 12): not carried to -TRIGGER
+    assert not any(lk.old_pin == 2 for lk in astable.pin_map.links)
+    # every input of the new part is tied or carries a net: a CMOS input never floats
+    inputs = {p.pin for p in cat.get("CD4047B").packages[0].pins
+              if p.function in ("ASTABLE", "ASTABLE_N", "TRIG_FALL", "TRIG_RISE", "CLEAR", "RETRIGGER")}
+    assert inputs <= set(ties) | {lk.new_pin for lk in astable.pin_map.links}
+
+
+def test_555_reset_onto_an_active_high_clear_is_tied_inactive_and_flagged(cat):
+    # NE555 RESET is active low (TI SLFS022); the 4047's EXTERNAL RESET is active high (a HIGH
+    # on MR terminates the pulse: Philips HEF4047B, January 1995). Carried straight over, a
+    # RESET held high would hold the new part in reset.
+    res = swap(cat, "NE555", "CD4047B", Circuit(part="", mode="astable", vcc=5, ra=10e3, rb=100e3, c=10e-9), new_vcc=5)
+    assert not any(lk.old_pin == 4 for lk in res.pin_map.links)
+    assert _ties(res)[9] == "GND"
+    assert "clear-polarity-inverted" in {f.rule for f in res.findings}
+    same = swap(cat, "74HC123", "74HC4538", mono(5, 100e3, 10e-9), new_vcc=5)  # both active low
+    assert "clear-polarity-inverted" not in {f.rule for f in same.findings}
+
+
+#: Fairchild CD4541BC DS006001, division ratio table: A B = 0 0 -> 2^13, 0 1 -> 2^10, 1 0 -> 2^8, 1 1 -> 2^16.
+_4541_SELECT = {256: ("VCC", "GND"), 1024: ("GND", "VCC"), 8192: ("GND", "GND"), 65536: ("VCC", "VCC")}
+
+
+@pytest.mark.parametrize("divide", [256, 1024, 8192, 16384])
+def test_4541_time_select_follows_the_division_ratio_table(cat, divide):
+    # Truth table of the same sheet: pin 10 MODE 1 = recycle, pin 5 AR 1 = auto reset off.
+    # Pins 12 (A) and 13 (B) as in catalog/cd4541b.yaml (Philips HEF4541B pinning). A 74HC4060
+    # /16384 has no 4541 ratio: the new part's ratio is the design's, and A/B follow it.
+    res = swap(cat, "74HC4060", "CD4541B", Circuit(part="", vcc=5, r=100e3, c=10e-9, divide=divide), new_vcc=5)
+    new_divide = res.new.values["divide"]
+    ties = _ties(res)
+    assert (ties[12], ties[13]) == _4541_SELECT[new_divide]
+    assert ties[10] == "VCC" and ties[5] == "VCC"
+    tap = next(lk for lk in res.pin_map.links if lk.function == "Q_TAP")
+    old_tap = next(p for p in cat.get("74HC4060").packages[0].pins if p.pin == tap.old_pin)
+    assert (old_tap.note or "").strip() == f"/{divide}"  # the tap the board uses carries over

@@ -175,6 +175,8 @@ TOP_VOCABULARY: tuple[Var, ...] = (
     _v("pins_blocking_list", "text", "", "those inputs and what to do with their nets"),
     _v("ties_added", "number", "", "inputs of the new part that need a tie the old board did not have"),
     _v("ties_added_list", "text", "", "those ties"),
+    _v("clears_inverted", "number", "", "old clears whose counterpart on the new part is active at the other level"),
+    _v("clears_inverted_list", "text", "", "those clears, e.g. 'RESET (pin 4), active low onto CD4047B EXTERNAL RESET (pin 9), active high'"),
     _v("edge_input_missing", "bool", "", "the new part has no input for the trigger's edge"),
     _v("edge_note", "text", "", "the pin map's note on the trigger edge"),
     _v("network_changed", "bool", "", "old and new parts use different timing networks (555 vs one-shot)"),

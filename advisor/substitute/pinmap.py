@@ -36,6 +36,8 @@ CLEARS = ("CLEAR", "RESET", "MASTER_RESET", "AUTO_RESET")
 OUTPUTS = ("Q", "QN", "OUT", "OSC_OUT", "OUT_C", "OUT_E", "Q_TAP")
 #: VREF: the LM3905 timing resistor runs from its reference output, not from VCC.
 NETWORK = ("CEXT", "RCEXT", "RINT", "REXT", "THRES", "DIS", "CONT", "RC_COMMON", "RS", "RTC", "CTC", "VREF")
+#: Control inputs that set a part's mode or ratio (the catalog ties them by use: Pin.tie).
+CONTROL_INPUTS = ("ASTABLE", "ASTABLE_N", "RETRIGGER", "PROG_A", "PROG_B", "MODE", "QSEL", "LOGIC")
 #: Controls a multi-section part may bring out once for all its sections (channel left out).
 SHARED_CONTROLS = SHARED_PIN_FUNCTIONS
 
@@ -59,7 +61,8 @@ RELATED: dict[str, tuple[str, ...]] = {
 
 #: What a bare output transistor's pin needs to stand in for a logic output.
 _BARE_TRANSISTOR = {
-    "OUT_C": ("output transistor's collector: fit a pull-up from it to the supply", "VCC"),
+    "OUT_C": "output transistor's collector, which needs a pull-up to the supply (rule "
+             "bare-transistor-output-needs-a-resistor)",
 }
 
 #: Edges that reach each other's inputs: a 555 TRIG (level-low) answers a falling edge.
@@ -139,6 +142,9 @@ class PinTie:
     channel: int | None
     level: str  # "VCC" or "GND"
     why: str
+    #: The old clear whose net this tie replaces when the two parts' clears have opposite
+    #: active levels ("RESET (pin 4), active low"); None for an ordinary tie.
+    replaces: str | None = None
 
     def to_json(self) -> dict:
         return asdict(self)
@@ -356,6 +362,18 @@ class _Pin:
     function: str
     channel: int | None
     note: str | None = None
+    source: object = None  # the catalog pin: its tie levels by use
+
+    @property
+    def tie(self) -> dict:
+        return self.source.tie if self.source is not None else {}
+
+    @property
+    def tie_why(self) -> str | None:
+        return self.source.tie_why if self.source is not None else None
+
+    def tie_level(self, mode: str | None, divide: int | None) -> str | None:
+        return self.source.tie_level(mode, divide) if self.source is not None else None
 
 
 @dataclass(frozen=True)
@@ -372,7 +390,7 @@ def _normalised(fam: Family, pkg: Package) -> _Pkg:
         ch = p.channel
         if ch is None and fam.channels == 1 and p.function not in (*POWER, "NC"):
             ch = 1
-        pins.append(_Pin(p.pin, p.name, p.function, ch, p.note))
+        pins.append(_Pin(p.pin, p.name, p.function, ch, p.note, p))
     return _Pkg(pkg.name, tuple(pins))
 
 
@@ -386,6 +404,8 @@ def map_pins(
     new_package: str | None = None,
     assume_edge: bool = True,
     divide: int | None = None,
+    mode: str | None = None,
+    old_divide: int | None = None,
 ) -> PinMap:
     """Map every old pin to the new part, channel by channel.
 
@@ -395,7 +415,12 @@ def map_pins(
     ``uses_internal_r`` tells that the old board times with the old part's internal
     resistor (no external Rext), so a new part without one needs an added resistor.
     ``divide``: a counter timer's divide ratio; the output then goes to the new part's
-    counter output (``Q_TAP``) whose note names that ratio ("/1024").
+    counter output (``Q_TAP``) whose note names that ratio ("/1024"), and control pins
+    tied by ratio (a 4541's A and B) take that ratio's levels. ``old_divide``: the ratio
+    the old board uses; only the old tap with that ratio carries the output over.
+    ``mode`` (``mono``/``astable``): the use, for control pins tied by mode (a 4047's
+    ASTABLE). A control input with no old counterpart and no tie data is named in the
+    notes: a CMOS input is never left open.
     """
     op, np_ = choose_packages(old, new, old_package, new_package)
     op, np_ = _normalised(old, op), _normalised(new, np_)
@@ -476,7 +501,8 @@ def map_pins(
                                                "second part if the board uses it", blocking=False))
             continue
         _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_internal_r, cross_kind,
-                     new_pins, link, ties, unmatched, additions, np_, divide=divide)
+                     new_pins, link, ties, unmatched, additions, np_, divide=divide, old_divide=old_divide,
+                     mode=mode)
 
     # --- new pins left over: enable levels, clears, unused sections --------------
     linked_new = {lk.new_pin for lk in links} | {t.new_pin for t in ties}
@@ -490,7 +516,16 @@ def map_pins(
                 level, why = _unused_level(new, p.function)
                 ties.append(PinTie(p.pin, p.name, p.function, p.channel, level, f"unused section: {why}"))
             continue
-        if k == "trigger" and new_active is not None:
+        if p.tie:
+            level = p.tie_level(mode, divide)
+            if level is not None:
+                ties.append(PinTie(p.pin, p.name, p.function, p.channel, level,
+                                   p.tie_why or f"as {new.id}'s function table sets it for this use"))
+            else:
+                uses = ", ".join(f"{k}: {v}" for k, v in p.tie.items())
+                notes.append(f"{new.id} {p.name} (pin {p.pin}) has no old counterpart and its level depends on the "
+                             f"use ({uses}): tie it as the datasheet says; never leave a CMOS input open")
+        elif k == "trigger" and new_active is not None:
             level = new_active.enable.get(p.function)
             if level is not None:
                 ties.append(PinTie(p.pin, p.name, p.function, p.channel, "VCC" if level == "high" else "GND",
@@ -498,10 +533,16 @@ def map_pins(
             else:
                 level_, why = _unused_level(new, p.function)
                 ties.append(PinTie(p.pin, p.name, p.function, p.channel, level_, f"not used: {why}"))
+        elif k == "trigger" and mode == "astable":
+            level_, why = _unused_level(new, p.function)
+            ties.append(PinTie(p.pin, p.name, p.function, p.channel, level_, f"free-running, no trigger: {why}"))
         elif k == "clear":
             level = _inactive_clear(new, p.function, new_active)
             ties.append(PinTie(p.pin, p.name, p.function, p.channel, level,
                                f"{old.id} has no {p.function.lower()}: held inactive"))
+        elif p.function in CONTROL_INPUTS:
+            notes.append(f"{new.id} {p.name} (pin {p.pin}) is a control input with no old counterpart: tie it as "
+                         "the datasheet's function table says for this use; never leave a CMOS input open")
         elif p.function == "CONT":
             notes.append(f"{new.id} {p.name} (pin {p.pin}) has no old counterpart: see the findings for "
                          "its bypass capacitor")
@@ -562,11 +603,26 @@ def _inactive_clear(fam: Family, function: str, active: TriggerInput | None) -> 
 
 
 def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_internal_r, cross_kind,
-                 new_pins, link, ties, unmatched, additions, np_, divide=None) -> None:
+                 new_pins, link, ties, unmatched, additions, np_, divide=None, old_divide=None,
+                 mode=None) -> None:
     """Map one section's pins (helper of :func:`map_pins`)."""
     for p in pins:
         k = kind_of(p.function)
         if p.function == "NC":
+            continue
+        if k == "trigger" and mode == "astable" and cross_kind and is_555(old):
+            # a 555 astable joins TRIG to THRES on the capacitor (TI SLFS022 figure 12): network, not trigger
+            unmatched.append(Unmatched(p.pin, p.name, p.function, ch,
+                                       f"joined to THRES on the timing capacitor in the astable: timing network "
+                                       f"pin, rebuild the network for {new.id}", blocking=True))
+            continue
+        if (p.function == "Q_TAP" and old_divide is not None and (p.note or "").strip() != f"/{old_divide}"
+                and not new_pins("Q_TAP", new_ch)):
+            # one output on the new part: only the tap the board uses carries over
+            unmatched.append(Unmatched(p.pin, p.name, p.function, ch,
+                                       f"{new.id} brings out one ratio; the board's /{old_divide} tap carries "
+                                       "over, this one does not (if the board uses it too, it needs a second "
+                                       "part or a counter)", blocking=False))
             continue
         if k == "trigger":
             _map_trigger(old, new, p, ch, new_ch, old_active, new_active, new_pins, link, unmatched)
@@ -601,20 +657,18 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
                 if cand:
                     note = f"{p.function} on {old.id} becomes {rel} on {new.id}: same job, check the datasheet"
                     if rel in _BARE_TRANSISTOR:
-                        what, other_end = _BARE_TRANSISTOR[rel]
+                        what = _BARE_TRANSISTOR[rel]
                         note = (f"{p.function} on {old.id} becomes the {new.id} {what}; its LOGIC input (open "
                                 "or high here) sets which level the pulse is: check the datasheet")
-                        additions.append(Addition(
-                            "resistor", "pull-up" if other_end == "VCC" else "pull-down",
-                            (f"pin {cand[0].pin} ({cand[0].name})", other_end), new_ch,
-                            f"if the board uses {p.name}: {new.id} drives it from a bare transistor (size the "
-                            "resistor for the load; a few kΩ into a logic input is common practice)"))
                     if rel == "Q_TAP":  # one pin per divide ratio
                         note = (f"{p.function} on {old.id} goes to the {new.id} counter output "
                                 + (f"for /{divide}" if divide is not None and (cand[0].note or "").strip() == f"/{divide}"
                                    else "for the divide ratio used (give --divide; each output pin's note names its ratio)")
                                 + "; check the datasheet")
                     break
+        if cand and k == "clear" and _active_clear_level(old, p.function) != _active_clear_level(new, cand[0].function):
+            _inverted_clear(old, new, p, cand[0], ch, ties, unmatched)
+            continue
         if cand:
             if cand[0].channel is None and new.channels > 1:
                 shared = f"{new.id} {cand[0].name} is common to all {new.channels} sections"
@@ -634,6 +688,24 @@ def _map_channel(old, new, pins, ch, new_ch, edge, old_active, new_active, uses_
             "network": f"{new.id} has no {p.function} pin: leave its net out",
         }.get(k, f"no {p.function} pin on {new.id}")
         unmatched.append(Unmatched(p.pin, p.name, p.function, ch, what, blocking=blocking))
+
+
+def _inverted_clear(old, new, p, target, ch, ties, unmatched) -> None:
+    """An old clear whose counterpart is active at the other level (a 555's active-low RESET onto
+    a 4047's active-high EXTERNAL RESET): carrying the net over would hold the new part in reset
+    where the board held the old one inactive. The new clear is tied inactive, and a driven
+    clear needs an inverter (the function tables of both parts; rule clear-polarity-inverted)."""
+    old_act, new_act = _active_clear_level(old, p.function), _active_clear_level(new, target.function)
+    if not any(t.new_pin == target.pin for t in ties):  # a clear shared by every section: one tie
+        ties.append(PinTie(target.pin, target.name, target.function, target.channel,
+                           "VCC" if new_act == "low" else "GND",
+                           f"held inactive ({target.name} is active {new_act}, {old.id} {p.name} was active "
+                           f"{old_act}); if the board drives {p.name}, wire that net through an inverter instead",
+                           replaces=f"{p.name} (pin {p.pin}), active {old_act}"))
+    unmatched.append(Unmatched(p.pin, p.name, p.function, ch,
+                               f"active {old_act}, while {new.id} {target.name} (pin {target.pin}) is active "
+                               f"{new_act}: the tie listed replaces a net that held it inactive; a driven "
+                               f"{p.name} reaches {target.name} through an inverter", blocking=False))
 
 
 def _map_trigger(old, new, p, ch, new_ch, old_active, new_active, new_pins, link, unmatched) -> None:

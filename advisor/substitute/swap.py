@@ -228,7 +228,7 @@ def swap(
     edge = circuit.trigger.edge
     pm = map_pins(old, new, edge=edge, uses_internal_r=uses_rint,
                   old_package=old_package, new_package=new_package, assume_edge=mode == "mono",
-                  divide=final_c.divide)
+                  divide=final_c.divide, mode=mode, old_divide=old_c.divide)
     old_values = dict(old_t.values)
     if uses_rint:
         old_values["r"] = None  # the internal resistor is not a part on the board
@@ -331,6 +331,10 @@ def swap_facts(pm, old: Family, new: Family, *, kept: dict, timing_solved: bool,
         "pins_blocking_list": "; ".join(f"{u.old_name} (pin {u.old_pin}): {u.what}" for u in blocking) or None,
         "ties_added": float(len(ties)),
         "ties_added_list": ", ".join(f"{t.new_name} (pin {t.new_pin}) to {t.level}" for t in ties) or None,
+        "clears_inverted": float(sum(t.replaces is not None for t in pm.ties)),
+        "clears_inverted_list": "; ".join(f"{t.replaces} onto {new.id} {t.new_name} (pin {t.new_pin}), active "
+                                          f"{'low' if t.level == 'VCC' else 'high'}"
+                                          for t in pm.ties if t.replaces is not None) or None,
         "edge_input_missing": edge_missing,
         "edge_note": (pol.note or f"{new.id} has no input for the {pol.edge} edge") if edge_missing else None,
         "network_changed": network_kind(old) != network_kind(new),
