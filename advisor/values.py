@@ -487,3 +487,21 @@ def parse_range(text: str, kind: str) -> tuple[float, float]:
     raise ValueParseError(
         f"cannot read {text!r} as a range", got=text, expected="MIN..MAX, for example 50us..70us"
     )
+
+
+def parse_count(raw: object, label: str) -> int:
+    """A divide ratio as the sheets print it: ``1024`` or ``2^10``; refused (naming ``label``) unless
+    a whole count of 1 or more."""
+    text = str(raw).strip().replace(" ", "")
+    try:
+        if "^" in text or "**" in text:  # 2^10: how the sheets print a binary tap
+            base, exp = text.replace("**", "^").split("^", 1)
+            value = int(base) ** int(exp) if 0 <= int(exp) <= 64 else 0
+        else:
+            value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise ValueParseError(f"{label}: cannot read {raw!r} as a divide ratio", got=raw,
+                              expected="a whole count of 1 or more, such as 1024 or 2^10")
+    return value

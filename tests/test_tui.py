@@ -234,12 +234,15 @@ async def test_swap_shows_class_pin_map_and_rework():
         rework = rendered_text(app, "#rework")
         assert " 1. " in rework and " 2. " in rework  # ordered steps
         assert app.screen.query_one("#pins").display and app.screen.query_one("#rework").display
-        # Ctrl+R exchanges the two parts.
+        # Ctrl+R exchanges the two parts, and what belongs to each part goes with it.
+        await fill(pilot, "maker", "TI")
         app.screen.query_one("#f-old", Input).focus()
         await pilot.press("ctrl+r")
         await pilot.pause(0.15)
         assert app.screen.query_one("#f-old", Input).value == "74HC221"
         assert app.screen.query_one("#f-new", Input).value == "74121"
+        assert app.screen.query_one("#f-new_maker", Input).value == "TI"
+        assert app.screen.query_one("#f-maker", Input).value == ""
 
 
 async def test_empty_workspace_asks_for_a_part():

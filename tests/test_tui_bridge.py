@@ -67,6 +67,7 @@ _GOOD = {
     "target": ["", "100us", "1kHz"],
     "series": ["", "E12", "E96"],
     "text": [""],
+    "count": ["", "1024", "2^13"],
 }
 
 
@@ -82,3 +83,25 @@ def test_readable_forms_never_crash_the_engine(catalog, form, new):
     out = evaluate(catalog, {**form, "old": "74LS221", "new": new})
     assert out.kind in ("check", "swap", "error")
     assert "internal error" not in (out.problem or ""), out.problem
+
+
+def test_divide_fields_read_as_the_sheets_print_them(catalog):
+    # A 74HC4060 at /1024 with Rt 100k, Ct 10n: T = 2.5·Rt·Ct = 2.5 ms per oscillator period
+    # (Philips 74HC/HCT4060, December 1990), so the output period is 1024 × 2.5 ms = 2.56 s.
+    values, errors = parse_fields({"divide": "2^10", "new_divide": "nine"})
+    assert values["divide"] == 1024 and "new_divide" in errors and "'nine'" in errors["new_divide"]
+    out = evaluate(catalog, {"old": "74HC4060", "vcc": "5", "r": "100k", "c": "10n", "divide": "1024"})
+    assert out.kind == "check", out.problem
+    assert out.data["timing"]["nominal"]["period"] == pytest.approx(2.56, rel=1e-3)
+    swap = evaluate(catalog, {"old": "74HC4060", "new": "CD4541B", "vcc": "5", "r": "100k", "c": "10n",
+                              "divide": "1024", "new_divide": "1024"})
+    assert swap.kind == "swap", swap.problem
+    assert swap.data["new"]["values"]["divide"] == 1024
+
+
+def test_new_maker_field_names_the_replacements_maker(catalog):
+    # 74HC123: NXP gives K = 0.45 at 5 V, the Fairchild MM74HC123A sheet T = R·C (catalog/74hc123.yaml).
+    out = evaluate(catalog, {"old": "74LS123", "new": "74HC123", "vcc": "5", "r": "10k", "c": "100n",
+                             "new_maker": "Fairchild"})
+    assert out.kind == "swap", out.problem
+    assert out.data["new"]["maker"] == "Fairchild"

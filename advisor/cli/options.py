@@ -11,7 +11,7 @@ import argparse
 from advisor.circuit import Circuit, Measurement, Target, Trigger
 from advisor.errors import RetimeError, ValueParseError
 from advisor.inputnames import typed_flag
-from advisor.values import parse_range, read_value
+from advisor.values import parse_count, parse_range, read_value
 
 _FLAGS: list[tuple[str, str, str]] = [
     # flag, quantity kind, help
@@ -108,19 +108,7 @@ def count_from_args(args: argparse.Namespace, flag: str = "--divide") -> int | N
     raw = getattr(args, flag.lstrip("-").replace("-", "_"), None)
     if raw is None:
         return None
-    text = str(raw).strip().replace(" ", "")
-    try:
-        if "^" in text or "**" in text:  # 2^10: how the sheets print a binary tap
-            base, exp = text.replace("**", "^").split("^", 1)
-            value = int(base) ** int(exp) if 0 <= int(exp) <= 64 else 0
-        else:
-            value = int(text)
-    except ValueError:
-        value = 0
-    if value < 1:
-        raise ValueParseError(f"{flag}: cannot read {raw!r} as a divide ratio", got=raw,
-                              expected="a whole count of 1 or more, such as 1024 or 2^10")
-    return value
+    return parse_count(raw, flag)
 
 
 def quantity_from_args(args: argparse.Namespace, flag: str, kind: str) -> float | None:

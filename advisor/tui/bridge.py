@@ -18,7 +18,7 @@ from dataclasses import dataclass, field
 from advisor.circuit import Circuit, Trigger
 from advisor.errors import RetimeError, ValueParseError
 from advisor.findings import SEVERITY_ORDER
-from advisor.values import parse_quantity
+from advisor.values import parse_count, parse_quantity
 
 @dataclass(frozen=True)
 class FieldSpec:
@@ -49,6 +49,10 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("pot_tol", "Trimmer tol.", "fraction", "blank = 20%", "the trimmer's own tolerance on its full value"),
     FieldSpec("pot_end", "Trimmer ends", "resistance", "blank = its class", "resistance left at each stop of the trimmer"),
     FieldSpec("cont", "CONT driven", "voltage", "blank = open", "a 555's control pin driven to this voltage (V)"),
+    FieldSpec("divide", "Divide by", "count", "e.g. 1024, 2^10",
+              "counter timers (CD4541B, 74HC4060): the divide ratio of the output the board uses"),
+    FieldSpec("new_divide", "New divide", "count", "blank = design picks",
+              "counter timers: the ratio the replacement must use (blank: the design tries each it has)"),
     FieldSpec("trigger_period", "Trigger period", "time", "e.g. 64us", "time between trigger edges"),
     FieldSpec("trigger_edge", "Trigger edge", "choice", "rising / falling",
               "the trigger signal's active edge (blank: the part's first trigger input)", ("rising", "falling")),
@@ -66,6 +70,9 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("maker", "Maker", "text", "blank = from the number",
               "the maker of the part on the board (e.g. NXP, TI), whose published constant is used; "
               "blank: the maker its part number names"),
+    FieldSpec("new_maker", "New maker", "text", "blank = from the number",
+              "the maker of the replacement you will order, whose published constant is used; "
+              "blank: the maker its part number names, else the band spans the makers"),
     FieldSpec("keep_within", "Keep within", "fraction", "blank = old band",
               "keep C and change one resistor when that lands within this fraction of the kept time (swap)"),
     FieldSpec("old_package", "Old package", "text", "blank = its first", "the fitted part's package, e.g. DIP-14"),
@@ -76,10 +83,10 @@ FIELD_BY_KEY = {f.key: f for f in FIELDS}
 #: The form's sections: heading and the keys under it.
 SECTIONS: tuple[tuple[str, tuple[str, ...]], ...] = (
     ("Parts and network", ("old", "new", "mode", "vcc", "new_vcc", "r", "rb", "c", "pot", "pot_setting", "pot_in", "pot_tol",
-                           "pot_end", "cont")),
+                           "pot_end", "cont", "divide", "new_divide")),
     ("Trigger", ("trigger_period", "trigger_edge", "trigger_high")),
     ("Measurement and target", ("measured", "measured_quantity", "target", "target_quantity")),
-    ("Tolerances and values", ("r_tol", "c_tol", "series", "keep_within", "maker")),
+    ("Tolerances and values", ("r_tol", "c_tol", "series", "keep_within", "maker", "new_maker")),
     ("Packages", ("old_package", "new_package")),
 )
 
@@ -111,7 +118,8 @@ _FLAG_FIELD = {"vcc": "Supply", "new-vcc": "New supply", "r": "R", "ra": "R", "r
                "target-period": "Target", "target-freq": "Target", "r-tol": "R tolerance", "c-tol": "C tolerance",
                "series": "Series", "maker": "Maker", "old-maker": "Maker", "cont": "CONT driven", "keep-within": "Keep within",
                "old-package": "Old package", "new-package": "New package", "measured-quantity": "Measured is",
-               "trigger-channel": "Trigger ch.", "output-channel": "Output ch.", "report": "Report file"}
+               "trigger-channel": "Trigger ch.", "output-channel": "Output ch.", "report": "Report file",
+               "divide": "Divide by", "new-divide": "New divide"}
 
 
 def ui_words(text: str | None) -> str | None:
@@ -157,6 +165,13 @@ def parse_fields(raw: dict[str, str]) -> tuple[dict[str, object], dict[str, str]
             else:
                 values[spec.key] = None
                 errors[spec.key] = f"cannot read {text!r}; expected one of: {', '.join(spec.choices)}"
+            continue
+        if spec.kind == "count":
+            try:
+                values[spec.key] = parse_count(text, spec.label)
+            except RetimeError as exc:
+                values[spec.key] = None
+                errors[spec.key] = exc.render()
             continue
         if spec.kind == "series":
             from advisor.eseries import series_name
@@ -345,6 +360,7 @@ def build_circuit(part: str, v: dict[str, object], measured=None, catalog=None) 
         target=target,
         r_series=series,  # type: ignore[arg-type]
         cont=v.get("cont"),  # type: ignore[arg-type]
+        divide=v.get("divide"),  # type: ignore[arg-type]
     )
 
 
@@ -410,7 +426,8 @@ def _evaluate(catalog, values: dict[str, object], errors: dict[str, str]) -> Out
         circuit = build_circuit(old_fam.id, values, measured, catalog)
         result = swap(catalog, str(values["old"]), str(new_query), circuit, new_vcc=values.get("new_vcc"),
                       series=str(values.get("series") or "E24"), old_package=values.get("old_package"),
-                      new_package=values.get("new_package"), keep_within=values.get("keep_within"))
+                      new_package=values.get("new_package"), keep_within=values.get("keep_within"),
+                      new_maker=values.get("new_maker"), new_divide=values.get("new_divide"))
         data = note_overrides(result, catalog).to_json()
         return Outcome("swap", data=data, findings=sorted_findings(data.get("findings") or []), part=old_fam.id, new_part=new_fam.id)
     from advisor.checking import check_circuit

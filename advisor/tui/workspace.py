@@ -539,9 +539,13 @@ class WorkspaceScreen(Screen):
             self.query_one(f"#f-{spec.key}", Input).value = ""
         self.query_one("#f-old", Input).focus()
 
+    #: Fields that belong to a part: they change sides with it.
+    _EXCHANGED = (("old", "new"), ("maker", "new_maker"), ("divide", "new_divide"), ("old_package", "new_package"))
+
     def action_exchange(self) -> None:
-        old, new = self.query_one("#f-old", Input), self.query_one("#f-new", Input)
-        old.value, new.value = new.value, old.value
+        for a, b in self._EXCHANGED:
+            old, new = self.query_one(f"#f-{a}", Input), self.query_one(f"#f-{b}", Input)
+            old.value, new.value = new.value, old.value
 
     def action_write_report(self) -> None:
         """Write the HTML (or Markdown) report of what the desk shows now."""
