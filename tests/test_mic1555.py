@@ -84,3 +84,28 @@ def test_part_numbers_read_as_the_family(cat):
     # ordering information: MIC1555BM5 (standard) and MIC1555YM5 (Pb-free), SOT-23-5; -TR reel
     for pn in ("MIC1555YM5-TR", "MIC1555BM5"):
         assert recognise(cat, pn)[0].family == "MIC1555"
+
+
+def test_design_offers_one_resistor_oscillators(cat):
+    from advisor.circuit import Target
+    from advisor.timing.design import design
+
+    fam = cat.get("MIC1555")
+    res = design(fam, Circuit("U1", vcc=5.0, mode="astable", target=Target("freq", 1e3)))
+    assert res.candidates
+    for cd in res.candidates:
+        # May 2010 Figure 3: one resistor, no RA; each half period RB C ln 2 between 1/3 and 2/3 VS
+        assert cd.values["ra"] == 0.0
+        assert 1.0 / (2 * math.log(2) * cd.values["rb"] * cd.values["c"]) == pytest.approx(1e3, rel=0.05)
+
+
+def test_one_resistor_oscillator_rules(cat):
+    fam = cat.get("MIC1555")
+    two = {f.rule for f in check_circuit(fam, Circuit("U1", vcc=5.0, mode="astable", ra=1e3, rb=10e3, c=0.1e-6)).findings}
+    assert "one-resistor-oscillator-ra" in two  # Figure 3: the oscillator has one resistor, no RA
+    one = {f.rule for f in check_circuit(fam, Circuit("U1", vcc=5.0, mode="astable", ra=0.0, rb=10e3, c=0.1e-6)).findings}
+    assert "one-resistor-oscillator-ra" not in one
+    # a swap from an NE555 astable designs the one-resistor network and removes RA
+    res = swap(cat, "NE555", "MIC1555", Circuit(part="NE555", vcc=5.0, mode="astable", ra=1e3, rb=10e3, c=0.1e-6))
+    assert res.new.values["ra"] == 0.0
+    assert any(s.detail.startswith("Remove RA") for s in res.rework)

@@ -151,7 +151,7 @@ PART_VOCABULARY: tuple[Var, ...] = (
     _v("output_sink", "number", "A", "published output sink current"),
     # package
     _v("package", "text", "", "default package name"),
-    _v("has_discharge", "bool", "", "the default package has a 555 DISCHARGE pin (a 5-pin MIC1555 has none: its timing resistor is fed from OUT)"),
+    _v("has_discharge", "bool", "", "the default package has a 555 DISCHARGE pin; false for a 555 pinout without one (the 5-pin MIC1555 feeds its timing resistor from OUT); unknown for other pinouts"),
     _v("pin_count", "number", "", "pins of the default package"),
     _v("output_kind", "text", "", "push-pull, open-collector (needs a pull-up to VCC) or transistor (collector and emitter on pins)"),
     _v("vref_pin", "number", "", "pin of a reference output the timing resistor returns to (VREF), default package; unknown when none"),
@@ -491,7 +491,9 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "output_kind": itf.outputs,
         "vref_pin": next((float(p.pin) for p in pkg.pins if p.function == "VREF"), None) if pkg else None,
         # whether the discharge-transistor facts apply: read from the pins, not the function
-        "has_discharge": any(p.function == "DIS" for p in pkg.pins) if pkg else None,
+        # (None when the package is no 555 pinout at all: no THRES pin either)
+        "has_discharge": (True if any(p.function == "DIS" for p in pkg.pins) else
+                          False if any(p.function == "THRES" for p in pkg.pins) else None) if pkg else None,
     }
     return out
 

@@ -160,7 +160,9 @@ def plan_rework(
             changes.pop("r", None)
     for key, (old_v, new_v) in changes.items():
         kind, label = VALUE_LABELS[key]
-        if new_v is None:
+        if new_v is None or (new_v == 0 and key == "ra"):
+            # RA = 0 is the one-resistor oscillator of a 555 without a discharge pin (MIC1555):
+            # the resistor goes, it is not bridged by a 0 Ω link
             add("fit", f"Remove {label} {_fmt(kind, old_v)}: not used with {pm.new_family}.", (), old_v, None)
         elif old_v is None:
             add("fit", f"Fit {label} {_fmt(kind, new_v)}.", (), None, new_v)

@@ -13,7 +13,8 @@ the limits allow it.
 Capacitors are taken from E6 unless another series is named (common practice: film
 and C0G parts are stocked in E6/E12). A 555 astable's RA/RB pair is searched over
 every RA of the series with the two RB values around the one its period needs
-(:func:`astable_pairs`), so the answer is as close as the series allows; variable resistors from the 1-2-5 sequence trimmers are sold in (common
+(:func:`astable_pairs`), so the answer is as close as the series allows; a 555 with
+no discharge pin oscillates from one resistor (RA = 0, :func:`single_resistor_555`); variable resistors from the 1-2-5 sequence trimmers are sold in (common
 practice).
 """
 
@@ -228,13 +229,26 @@ def _covers(cd: Candidate, window) -> bool:
     return window is None or cd.setting is not None
 
 
+def single_resistor_555(family: Family) -> bool:
+    """A 555 without a DISCHARGE pin (the 5-pin MIC1555) oscillates from one resistor fed back
+    from OUT to THR and TRG: in the 555 law that is RA = 0, RB = the resistor, each half period
+    RB·C·ln(u/l) (a 50 % square wave at u = 2/3, l = 1/3). Source: Micrel MIC1555/1557
+    M9999-052610-D (May 2010), Figure 3 (oscillator configuration); catalog/mic1555.yaml."""
+    pkg = family.packages[0] if family.packages else None
+    functions = {p.function for p in pkg.pins} if pkg is not None else set()
+    return family.timing.law == "timer-555" and "THRES" in functions and "DIS" not in functions
+
+
 def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555, c_series: str = "E6") -> list[float]:
     """Capacitors of ``c_series`` whose ideal resistance lies inside the limits, nearest R_COMFORT first."""
     out = []
     centre = min(max(R_COMFORT, r_lo * 3), r_hi / 3)
+    one_r = astable555 and single_resistor_555(family)
     for c in eseries.values_between(c_series, c_lo, c_hi):
         model = build(family, base.with_(c=c, r=1e3, ra=1e3, rb=1e3), need_network=False)
-        if astable555:
+        if one_r:
+            r = _solve(lambda x: model.times(model.at(ra=0.0, rb=x))[q], t_goal)
+        elif astable555:
             r = _solve(lambda x: model.times(model.at(ra=x / 10, rb=x))[q], t_goal)
         else:
             r = _solve(lambda x: model.times(model.at(r=x, rp=0.0))[q], t_goal)
@@ -247,16 +261,23 @@ def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555, c
 def _networks(family, circuit, q, t_goal, window, series, r_lo, r_hi, astable555, variable, present=None) -> list[dict]:
     """Resistor networks (dicts of Circuit fields) for one capacitor."""
     model = build(family, circuit.with_(r=1e3, ra=1e3, rb=1e3, pot=None, pot_setting=None), need_network=False)
-    if astable555:
+    # One resistor, no RA, on a 555 without a discharge pin (single_resistor_555): RB alone.
+    one_r = astable555 and single_resistor_555(family)
+    if astable555 and not one_r:
         return _astable_networks(model, circuit, q, t_goal, window, series, r_lo, r_hi, variable, present)
-    ev = lambda x: model.times(model.at(r=x, rp=0.0))[q]  # noqa: E731
+    field, extra = ("rb", {"ra": 0.0}) if one_r else ("r", {})
+    if one_r:
+        model = model.with_params(ra=0.0)
+        ev = lambda x: model.times(model.at(ra=0.0, rb=x, rp=0.0))[q]  # noqa: E731
+    else:
+        ev = lambda x: model.times(model.at(r=x, rp=0.0))[q]  # noqa: E731
     if not variable:
         ideal = _solve(ev, t_goal)
         if not r_lo <= ideal <= r_hi:
             return []
         vals = {eseries.next_down(series, ideal * 1.0000001), eseries.next_up(series, ideal * 0.9999999), eseries.nearest(series, ideal)}
-        return [{"r": v} for v in sorted(vals) if r_lo <= v <= r_hi]
-    return _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, "r")
+        return [{field: v, **extra} for v in sorted(vals) if r_lo <= v <= r_hi]
+    return _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, field, extra or None)
 
 
 def _variable(ev, model, circuit, t_goal, window, series, r_lo, r_hi, field_name, fixed_extra=None) -> list[dict]:
