@@ -541,8 +541,10 @@ def map_pins(
             ties.append(PinTie(p.pin, p.name, p.function, p.channel, level,
                                f"{old.id} has no {p.function.lower()}: held inactive"))
         elif p.function in CONTROL_INPUTS:
-            notes.append(f"{new.id} {p.name} (pin {p.pin}) is a control input with no old counterpart: tie it as "
-                         "the datasheet's function table says for this use; never leave a CMOS input open")
+            notes.append(f"{new.id} {p.name} (pin {p.pin}) is a control input with no old counterpart: set it as "
+                         "the datasheet's function table says for this use"
+                         + (f" ({p.note})" if p.note else "")
+                         + ("" if new.technology in ("bipolar", "ttl", "ls") else "; never leave a CMOS input open"))
         elif p.function == "CONT":
             notes.append(f"{new.id} {p.name} (pin {p.pin}) has no old counterpart: see the findings for "
                          "its bypass capacitor")
