@@ -109,3 +109,17 @@ def test_one_resistor_oscillator_rules(cat):
     res = swap(cat, "NE555", "MIC1555", Circuit(part="NE555", vcc=5.0, mode="astable", ra=1e3, rb=10e3, c=0.1e-6))
     assert res.new.values["ra"] == 0.0
     assert any(s.detail.startswith("Remove RA") for s in res.rework)
+
+
+def test_report_wires_the_resistor_from_out(cat):
+    from advisor.report.model import build_network
+
+    # May 2010 Figure 3: the oscillator's one resistor runs from OUT to THR and TRG; no RA, no RESET tie
+    net = build_network({"ra": 0.0, "rb": 10e3, "c": 0.1e-6, "vcc": 5.0}, "MIC1555", "astable", cat)
+    refs = {i.ref: i.pins for i in net.items}
+    assert "RA" not in refs
+    assert refs["RB"] == ("pin 3 (OUT)", "pin 5 (THR)", "pin 4 (TRG)")
+    assert net.ties == ()
+    # Figure 1: the one-shot's resistor from OUT to THR, the capacitor from THR to ground
+    mono = build_network({"r": 10e3, "c": 0.1e-6, "vcc": 5.0}, "MIC1555", "mono", cat)
+    assert {i.ref: i.pins for i in mono.items}["R"] == ("pin 3 (OUT)", "pin 5 (THR)")

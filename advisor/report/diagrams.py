@@ -202,7 +202,9 @@ def network_svg(net: Network) -> str:
 
     with schemdraw.Drawing(show=False) as d:
         d.config(unit=2.4, fontsize=11, margin=0.6)
-        if net.function == "timer-555":
+        if net.function == "timer-555" and net.pins and "DIS" not in net.pins:
+            _draw_555_from_out(d, elm, net)
+        elif net.function == "timer-555":
             _draw_555(d, elm, net)
         else:
             _draw_one_shot(d, elm, net)
@@ -356,6 +358,56 @@ def _draw_555(d, elm, net: Network) -> None:
     d += elm.Line().at(ic.CONT).left(0.9)
     d += elm.Capacitor().down().label("10n", loc="bottom")
     d += elm.Ground()
+    if not astable:
+        d += elm.Line().at(ic.TRIG).left(1.8)
+        d += elm.Dot(open=True).label("trigger in", loc="left")
+
+
+def _draw_555_from_out(d, elm, net: Network) -> None:
+    """A 555 with no DISCHARGE pin (the 5-pin MIC1555): the timing resistor runs from OUT to
+    THR (and TRG for an oscillator), the capacitor from there to ground (Micrel MIC1555/1557
+    M9999-052610-D, May 2010, Figures 1 and 3); no RESET or CONT pin to tie."""
+    astable = net.mode == "astable"
+    right = ["THRES", "TRIG"] if astable else ["THRES"]
+    left = ["OUT"] + ([] if astable else ["TRIG"])
+    pins = [_ic_pin(elm, net, f, "left", f) for f in reversed(left)]
+    pins += [_ic_pin(elm, net, f, "right", f) for f in reversed(right)]
+    pins += [_ic_pin(elm, net, "VCC", "top", "VCC"), _ic_pin(elm, net, "GND", "bottom", "GND")]
+    ic = elm.Ic(pins=pins, edgepadW=3.2, edgepadH=0.8, pinspacing=2.0, leadlen=0.6, lblsize=10).right()
+    ic.label(net.part + (f"\n{net.package}" if net.package else ""), "center", fontsize=11)
+    d += ic
+    d += elm.Line().at(ic.VCC).up(0.6)
+    d += elm.Vdd().label(_supply_label(net))
+    x_out, x = ic.OUT[0] - 1.2, ic.THRES[0] + 1.6
+    top_y = ic.VCC[1] + 2.0
+    d += elm.Line().at(ic.OUT).tox(x_out)
+    d += elm.Dot().at((x_out, ic.OUT[1])).label("output", loc="left")
+    d += elm.Line().at((x_out, ic.OUT[1])).toy(top_y)
+    r = _item(net, "RB") or _item(net, "R")
+    vr = _item(net, "VR")
+    thr = (x, ic.THRES[1])
+    if r is not None and vr is not None:
+        mid = ((x_out + x) / 2, top_y)
+        d += elm.Resistor().endpoints((x_out, top_y), mid).label(_label(r), loc="top")
+        d += elm.Potentiometer().endpoints(mid, (x, top_y)).label(_label(vr, net.pot_setting), loc="top")
+    elif r is not None:
+        d += elm.Resistor().endpoints((x_out, top_y), (x, top_y)).label(_label(r), loc="top")
+    else:
+        d += elm.Line().endpoints((x_out, top_y), (x, top_y))
+    d += elm.Line().at((x, top_y)).toy(thr[1])
+    d += elm.Line().at(ic.THRES).to(thr)
+    d += elm.Dot().at(thr)
+    low = thr
+    if astable:
+        d += elm.Line().at(ic.TRIG).tox(x)
+        d += elm.Line().toy(thr[1])
+        low = (x, ic.TRIG[1])
+    c = _item(net, "C")
+    d += elm.Line().at(low).down(0.3)
+    if c is not None:
+        d += elm.Capacitor(polar=c.value >= 1e-6).down().label(_label(c), loc="bottom")
+    d += elm.Ground()
+    d += elm.Ground().at(ic.GND)
     if not astable:
         d += elm.Line().at(ic.TRIG).left(1.8)
         d += elm.Dot(open=True).label("trigger in", loc="left")

@@ -254,6 +254,9 @@ _ITEM_PINS = {
     ("timer-555", "mono"): {"R": ("VCC", "DIS", "THRES"), "VR": ("DIS", "THRES"), "C": ("THRES", "GND")},
     ("timer-555", "astable"): {"RA": ("VCC", "DIS"), "RB": ("DIS", "THRES"), "VR": ("THRES", "TRIG"), "C": ("THRES", "TRIG", "GND")},
     ("one-shot", "mono"): {"R": ("VCC", "RCEXT", "REXT"), "VR": ("RCEXT", "REXT"), "C": ("CEXT", "RCEXT", "RC_COMMON")},
+    # a 555 with no DISCHARGE pin (MIC1555): the resistor is fed from OUT (Micrel May 2010, Figures 1 and 3)
+    ("555-from-out", "mono"): {"R": ("OUT", "THRES"), "VR": ("OUT", "THRES"), "C": ("THRES", "GND")},
+    ("555-from-out", "astable"): {"RB": ("OUT", "THRES", "TRIG"), "VR": ("OUT", "THRES"), "C": ("THRES", "TRIG", "GND")},
 }
 
 
@@ -272,10 +275,13 @@ def build_network(values: dict | None, part: str | None, mode: str | None, catal
         package = pkg.name
         for func, nums in pkg.by_function(1).items():
             pins[func] = [(n, _pin_label(fam, n)) for n in nums]
-    shape = ("timer-555", mode) if function == "timer-555" else ("one-shot", "mono")
+    from_out = function == "timer-555" and bool(pins) and "DIS" not in pins
+    shape = ("555-from-out" if from_out else "timer-555", mode) if function == "timer-555" else ("one-shot", "mono")
     wiring = _ITEM_PINS.get(shape, {})
     placed = []
     for it in items:
+        if from_out and it.ref == "RA" and not it.value:
+            continue  # RA = 0: the one-resistor oscillator has no RA to fit
         where = []
         for func in wiring.get(it.ref, ()):
             for n, label in pins.get(func, []):
@@ -293,7 +299,8 @@ def _ties(fam: Any, function: str, mode: str, pin_map: Any, edge: str | None) ->
     else the enable levels of the part's input for the wired edge (a 555's RESET held
     high, common practice)."""
     if function == "timer-555":
-        return (("RESET", "VCC"),), ("TRIG" if mode != "astable" else None)
+        has_reset = fam is None or not fam.packages or any(p.function == "RESET" for p in fam.default_package().pins)
+        return ((("RESET", "VCC"),) if has_reset else ()), ("TRIG" if mode != "astable" else None)
     ties: list[tuple[str, str]] = []
     trigger_in = None
     if isinstance(pin_map, dict) and isinstance(pin_map.get("ties"), list):
