@@ -46,10 +46,10 @@ SHARED_CONTROLS = SHARED_PIN_FUNCTIONS
 RELATED: dict[str, tuple[str, ...]] = {
     "TRIG": ("TRIG_FALL",),
     "TRIG_FALL": ("TRIG",),
+    # OUT_C: a bare output transistor (LM3905): its collector with a pull-up gives Q while
+    # the LOGIC input is open or high (National, February 1995, pin function description)
     "OUT": ("Q", "OUT_C"),
     "Q": ("OUT", "Q_TAP", "OUT_C"),
-    # a bare output transistor (LM3905): its collector with a pull-up gives Q while the
-    # LOGIC input is open or high (National, February 1995, pin function description)
     # a counter timer's stage outputs (74HC4060): the note on each pin names its divide ratio
     "Q_TAP": ("Q",),
     "RESET": ("CLEAR", "MASTER_RESET"),
