@@ -299,16 +299,32 @@ def _draw_ties(d, elm, net: Network, ic, left: list[str]) -> None:
         d += elm.Dot(open=True).label("trigger in", loc="left")
 
 
-def _draw_555(d, elm, net: Network) -> None:
-    astable = net.mode == "astable"
-    right = ["DIS", "THRES", "TRIG"] if astable else ["DIS", "THRES"]
-    left = ["CONT", "RESET", "OUT"] + ([] if astable else ["TRIG"])
+def _timing_c_and_ground(d, elm, net: Network, ic, low) -> None:
+    """The timing capacitor from the THR/TRG node down to ground (polarised from 1 µF), and GND."""
+    c = _item(net, "C")
+    d += elm.Line().at(low).down(0.3)
+    if c is not None:
+        d += elm.Capacitor(polar=c.value >= 1e-6).down().label(_label(c), loc="bottom")
+    d += elm.Ground()
+    d += elm.Ground().at(ic.GND)
+
+
+def _555_body(d, elm, net: Network, left: list[str], right: list[str]):
+    """The 555's box with its signal pins on the given sides, VCC on top and GND below."""
     pins = [_ic_pin(elm, net, f, "left", f) for f in reversed(left)]
     pins += [_ic_pin(elm, net, f, "right", f) for f in reversed(right)]
     pins += [_ic_pin(elm, net, "VCC", "top", "VCC"), _ic_pin(elm, net, "GND", "bottom", "GND")]
     ic = elm.Ic(pins=pins, edgepadW=3.2, edgepadH=0.8, pinspacing=2.0, leadlen=0.6, lblsize=10).right()
     ic.label(net.part + (f"\n{net.package}" if net.package else ""), "center", fontsize=11)
     d += ic
+    return ic
+
+
+def _draw_555(d, elm, net: Network) -> None:
+    astable = net.mode == "astable"
+    right = ["DIS", "THRES", "TRIG"] if astable else ["DIS", "THRES"]
+    left = ["CONT", "RESET", "OUT"] + ([] if astable else ["TRIG"])
+    ic = _555_body(d, elm, net, left, right)
     x = ic.DIS[0] + 1.6
     top_y = ic.VCC[1] + 1.2
     d += elm.Line().at(ic.VCC).toy(top_y)
@@ -344,12 +360,7 @@ def _draw_555(d, elm, net: Network) -> None:
         low = thr
     d += elm.Line().at(ic.THRES).to(thr)
     d += elm.Dot().at(thr)
-    c = _item(net, "C")
-    d += elm.Line().at(low).down(0.3)
-    if c is not None:
-        d += elm.Capacitor(polar=c.value >= 1e-6).down().label(_label(c), loc="bottom")
-    d += elm.Ground()
-    d += elm.Ground().at(ic.GND)
+    _timing_c_and_ground(d, elm, net, ic, low)
     # RESET held high (it would otherwise hold the timer off); CONT decoupled to ground:
     # the usual 10 nF (common practice; the makers' application circuits show it).
     d += elm.Line().at(ic.RESET).left(0.9)
@@ -370,12 +381,7 @@ def _draw_555_from_out(d, elm, net: Network) -> None:
     astable = net.mode == "astable"
     right = ["THRES", "TRIG"] if astable else ["THRES"]
     left = ["OUT"] + ([] if astable else ["TRIG"])
-    pins = [_ic_pin(elm, net, f, "left", f) for f in reversed(left)]
-    pins += [_ic_pin(elm, net, f, "right", f) for f in reversed(right)]
-    pins += [_ic_pin(elm, net, "VCC", "top", "VCC"), _ic_pin(elm, net, "GND", "bottom", "GND")]
-    ic = elm.Ic(pins=pins, edgepadW=3.2, edgepadH=0.8, pinspacing=2.0, leadlen=0.6, lblsize=10).right()
-    ic.label(net.part + (f"\n{net.package}" if net.package else ""), "center", fontsize=11)
-    d += ic
+    ic = _555_body(d, elm, net, left, right)
     d += elm.Line().at(ic.VCC).up(0.6)
     d += elm.Vdd().label(_supply_label(net))
     x_out, x = ic.OUT[0] - 1.2, ic.THRES[0] + 1.6
@@ -402,12 +408,7 @@ def _draw_555_from_out(d, elm, net: Network) -> None:
         d += elm.Line().at(ic.TRIG).tox(x)
         d += elm.Line().toy(thr[1])
         low = (x, ic.TRIG[1])
-    c = _item(net, "C")
-    d += elm.Line().at(low).down(0.3)
-    if c is not None:
-        d += elm.Capacitor(polar=c.value >= 1e-6).down().label(_label(c), loc="bottom")
-    d += elm.Ground()
-    d += elm.Ground().at(ic.GND)
+    _timing_c_and_ground(d, elm, net, ic, low)
     if not astable:
         d += elm.Line().at(ic.TRIG).left(1.8)
         d += elm.Dot(open=True).label("trigger in", loc="left")
