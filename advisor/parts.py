@@ -485,3 +485,12 @@ class Family(_Frozen):
 
     def default_package(self) -> Package:
         return self.packages[0]
+
+    def has_discharge(self) -> bool | None:
+        """Whether the default pinout has a 555 DISCHARGE pin: False for a 555 pinout without
+        one (the 5-pin MIC1555 feeds its timing resistor from OUT: Micrel M9999-052610-D,
+        May 2010, Figures 1 and 3), None when there is no 555 pinout (no THRES pin) at all."""
+        functions = {p.function for p in self.packages[0].pins} if self.packages else set()
+        if "DIS" in functions:
+            return True
+        return False if "THRES" in functions else None

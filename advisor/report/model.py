@@ -275,7 +275,7 @@ def build_network(values: dict | None, part: str | None, mode: str | None, catal
         package = pkg.name
         for func, nums in pkg.by_function(1).items():
             pins[func] = [(n, _pin_label(fam, n)) for n in nums]
-    from_out = function == "timer-555" and bool(pins) and "DIS" not in pins
+    from_out = function == "timer-555" and fam is not None and fam.has_discharge() is False
     shape = ("555-from-out" if from_out else "timer-555", mode) if function == "timer-555" else ("one-shot", "mono")
     wiring = _ITEM_PINS.get(shape, {})
     placed = []

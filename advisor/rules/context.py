@@ -491,9 +491,7 @@ def part_values(family: Family, circuit: Circuit | None, timing: dict | None = N
         "output_kind": itf.outputs,
         "vref_pin": next((float(p.pin) for p in pkg.pins if p.function == "VREF"), None) if pkg else None,
         # whether the discharge-transistor facts apply: read from the pins, not the function
-        # (None when the package is no 555 pinout at all: no THRES pin either)
-        "has_discharge": (True if any(p.function == "DIS" for p in pkg.pins) else
-                          False if any(p.function == "THRES" for p in pkg.pins) else None) if pkg else None,
+        "has_discharge": family.has_discharge(),
     }
     return out
 

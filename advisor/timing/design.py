@@ -234,9 +234,7 @@ def single_resistor_555(family: Family) -> bool:
     from OUT to THR and TRG: in the 555 law that is RA = 0, RB = the resistor, each half period
     RB·C·ln(u/l) (a 50 % square wave at u = 2/3, l = 1/3). Source: Micrel MIC1555/1557
     M9999-052610-D (May 2010), Figure 3 (oscillator configuration); catalog/mic1555.yaml."""
-    pkg = family.packages[0] if family.packages else None
-    functions = {p.function for p in pkg.pins} if pkg is not None else set()
-    return family.timing.law == "timer-555" and "THRES" in functions and "DIS" not in functions
+    return family.timing.law == "timer-555" and family.has_discharge() is False
 
 
 def _c_candidates(family, base, q, t_goal, c_lo, c_hi, r_lo, r_hi, astable555, c_series: str = "E6") -> list[float]:
